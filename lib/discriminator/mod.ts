@@ -1,0 +1,6 @@
+/**
+ * discriminator (in progress).
+ *
+ * @module
+ */
+export {};

@@ -1,0 +1,6 @@
+/**
+ * divergence (in progress).
+ *
+ * @module
+ */
+export {};

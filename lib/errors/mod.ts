@@ -1,0 +1,6 @@
+/**
+ * The saddlekit error family.
+ *
+ * @module
+ */
+export * from "./saddle_error.ts";

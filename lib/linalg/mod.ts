@@ -1,0 +1,6 @@
+/**
+ * linalg (in progress).
+ *
+ * @module
+ */
+export {};

@@ -1,0 +1,6 @@
+/**
+ * plot (in progress).
+ *
+ * @module
+ */
+export {};

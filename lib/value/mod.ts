@@ -1,0 +1,6 @@
+/**
+ * value (in progress).
+ *
+ * @module
+ */
+export {};
