@@ -45,7 +45,7 @@ export interface EstimateFields {
   notes?: readonly string[];
 }
 
-const DISPLAY = Symbol.for("Jupyter.display");
+import { JUPYTER_DISPLAY as DISPLAY } from "./display.ts";
 
 /**
  * Make an {@linkcode Estimate}. The result is a plain frozen object (JSON-serialisable)
@@ -96,7 +96,14 @@ export function makeEstimate(fields: EstimateFields): Estimate {
  * ```
  */
 export function exact(value: number, unit?: EstimateUnit, notes: readonly string[] = []): Estimate {
-  return makeEstimate({ value, method: "exact", n: 0, level: 0.95, notes, ...(unit ? { unit } : {}) });
+  return makeEstimate({
+    value,
+    method: "exact",
+    n: 0,
+    level: 0.95,
+    notes,
+    ...(unit ? { unit } : {}),
+  });
 }
 
 /**

@@ -54,7 +54,9 @@ export function formatEstimate(e: Estimate, digits = 4): string {
   const ci = e.ci ? ` [${formatNumber(e.ci[0], digits)}, ${formatNumber(e.ci[1], digits)}]` : "";
   const lvl = e.ci ? `${Math.round(e.level * 1000) / 10}% CI, ` : "";
   const notes = e.notes.length ? `; ${e.notes.join("; ")}` : "";
-  return `${formatNumber(e.value, digits)}${se}${unit}${ci} (${lvl}${e.method}, n = ${e.n})${notes}`;
+  return `${
+    formatNumber(e.value, digits)
+  }${se}${unit}${ci} (${lvl}${e.method}, n = ${e.n})${notes}`;
 }
 
 /**
@@ -68,8 +70,10 @@ export function formatEstimate(e: Estimate, digits = 4): string {
  * ```
  */
 export function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (c) =>
-    ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] as string);
+  return s.replace(
+    /[&<>"']/g,
+    (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] as string,
+  );
 }
 
 /** A cell of {@linkcode htmlTable}: text, a number (formatted) or an Estimate. */
@@ -158,9 +162,7 @@ function estimateCell(e: Estimate): string {
  */
 export function estimateHtml(e: Estimate): string {
   const ci = e.ci
-    ? `[${formatNumber(e.ci[0])}, ${formatNumber(e.ci[1])}] (${
-      Math.round(e.level * 1000) / 10
-    }%)`
+    ? `[${formatNumber(e.ci[0])}, ${formatNumber(e.ci[1])}] (${Math.round(e.level * 1000) / 10}%)`
     : "";
   return htmlTable(
     ["value", "se", "interval", "unit", "method", "n", "notes"],

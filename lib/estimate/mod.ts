@@ -6,3 +6,4 @@
 export * from "./estimate.ts";
 export * from "./bootstrap.ts";
 export * from "./format.ts";
+export * from "./display.ts";
