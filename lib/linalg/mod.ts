@@ -1,6 +1,9 @@
 /**
- * linalg (in progress).
+ * Linear algebra on row-major `Float64Array` matrices: Cholesky, triangular solves,
+ * log-determinants, symmetric eigendecomposition and square roots, sample moments.
  *
  * @module
  */
-export {};
+export * from "./cholesky.ts";
+export * from "./eigen.ts";
+export * from "./moments.ts";
