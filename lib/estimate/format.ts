@@ -28,7 +28,13 @@ export function formatNumber(x: number, digits = 4): string {
     const [m, e] = x.toExponential(digits - 1).split("e");
     return `${trimZeros(m)}e${Number(e)}`;
   }
-  return trimZeros(x.toPrecision(digits));
+  // toPrecision switches to "1.235e+5" when the exponent reaches `digits`: same form as above.
+  const p = x.toPrecision(digits);
+  if (p.includes("e")) {
+    const [m, e] = p.split("e");
+    return `${trimZeros(m)}e${Number(e)}`;
+  }
+  return trimZeros(p);
 }
 
 function trimZeros(s: string): string {

@@ -6,3 +6,9 @@
  */
 export * from "./samples.ts";
 export * from "./transform.ts";
+export * from "./csv.ts";
+export * from "./json.ts";
+export * from "./npy.ts";
+export * from "./npz.ts";
+export * from "./read.ts";
+export type { ColumnSelection } from "./_columns.ts";
