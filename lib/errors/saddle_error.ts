@@ -67,6 +67,8 @@ export class SaddleError extends Error {
   readonly location: SaddleErrorLocation;
 
   /**
+   * Make an error; the message is prefixed with the formatted location.
+   *
    * @param code Machine-readable reason.
    * @param message What is wrong and what would fix it; the location is appended.
    * @param location Where the problem was found.

@@ -35,13 +35,21 @@ export interface Estimate {
 
 /** Fields accepted by {@linkcode makeEstimate}; `level` defaults to 0.95, `notes` to []. */
 export interface EstimateFields {
+  /** The point estimate. */
   value: number;
+  /** Standard error. */
   se?: number;
+  /** Confidence interval at `level`. */
   ci?: readonly [number, number];
+  /** Confidence level (default 0.95). */
   level?: number;
+  /** How the value was obtained. */
   method: string;
+  /** Number of samples behind the estimate. */
   n: number;
+  /** Unit of the value. */
   unit?: EstimateUnit;
+  /** Caveats (default none). */
   notes?: readonly string[];
 }
 

@@ -30,7 +30,11 @@ export class Rng {
   #next: () => number;
   #spare = NaN;
 
-  /** @param seed Any number or string; equal seeds give equal streams. */
+  /**
+   * Start a generator from a seed.
+   *
+   * @param seed Any number or string; equal seeds give equal streams.
+   */
   constructor(seed: number | string) {
     if (typeof seed === "number" && !Number.isFinite(seed)) {
       throw new SaddleError("invalid-argument", `seed must be finite, got ${seed}`, {

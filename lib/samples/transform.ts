@@ -90,12 +90,14 @@ export function standardize(
   const scale = new Float64Array(d);
   const notes: string[] = [];
   for (let j = 0; j < d; j++) {
-    let mean = 0, m2 = 0;
+    // Two passes (mean, then squared deviations): exact enough for large offsets.
+    let sum = 0;
+    for (let i = 0; i < reference.n; i++) sum += reference.data[i * d + j];
+    const mean = sum / reference.n;
+    let m2 = 0;
     for (let i = 0; i < reference.n; i++) {
-      const v = reference.data[i * d + j];
-      const delta = v - mean;
-      mean += delta / (i + 1);
-      m2 += delta * (v - mean);
+      const dev = reference.data[i * d + j] - mean;
+      m2 += dev * dev;
     }
     const sd = reference.n > 1 ? Math.sqrt(m2 / (reference.n - 1)) : 0;
     shift[j] = mean;
