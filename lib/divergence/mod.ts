@@ -1,6 +1,11 @@
 /**
- * divergence (in progress).
+ * Divergences: the f-divergence table, f-divergences between densities by quadrature or
+ * Monte Carlo, variational bounds, Gaussian closed forms and discrete KL / JSD.
  *
  * @module
  */
-export {};
+export * from "./f_divergences.ts";
+export * from "./f_divergence.ts";
+export * from "./gaussian_closed_forms.ts";
+export * from "./discrete.ts";
+export * from "./integration_options.ts";
