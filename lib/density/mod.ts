@@ -1,6 +1,19 @@
 /**
- * Densities: the Density interface, analytic densities and fitted estimators.
+ * Densities: the Density interface, analytic densities (Gaussian, mixture, uniform box) and
+ * fitted estimators (Gaussian KDE with bandwidth rules and a binned grid evaluator,
+ * Gaussian mixtures by EM with model selection, histograms).
  *
  * @module
  */
 export * from "./types.ts";
+export type { MatrixInput } from "./_common.ts";
+export type { EvalMethod } from "./_kde_eval.ts";
+export { gaussian, type GaussianDensity } from "./gaussian.ts";
+export * from "./gaussian_mixture.ts";
+export * from "./uniform_box.ts";
+export * from "./bandwidth.ts";
+export * from "./kde.ts";
+export * from "./kde_grid.ts";
+export * from "./gaussian_mixture_fit.ts";
+export * from "./gaussian_mixture_select.ts";
+export * from "./histogram.ts";

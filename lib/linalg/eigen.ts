@@ -63,8 +63,9 @@ export function symmetricEigen(a: ArrayLike<number>, d: number): SymmetricEigen 
 
 /**
  * The symmetric positive semi-definite square root `S` with `S S = A`. Eigenvalues that are
- * negative by rounding only (above `-tolerance * λ_max`) are set to 0; clearly negative ones
- * throw, since `A` is then not a covariance.
+ * negative by rounding only (above `-tolerance * λ_max`) are set to 0, as are those within
+ * rounding of 0 (`|λ| <= 4 d ε λ_max`); clearly negative ones throw, since `A` is then not a
+ * covariance.
  *
  * @example
  * ```ts
@@ -86,7 +87,11 @@ export function sqrtSymmetric(a: ArrayLike<number>, d: number, tolerance = 1e-10
         { parameter: "matrix" },
       );
     }
-    root[k] = Math.sqrt(Math.max(values[k], 0));
+    // Eigenvalues within rounding of 0 (|λ| <= 4 d ε λ_max) are 0: their square root
+    // (~1e-8 λ_max^½) would otherwise be pure rounding noise.
+    root[k] = Math.abs(values[k]) <= 4 * d * Number.EPSILON * top
+      ? 0
+      : Math.sqrt(Math.max(values[k], 0));
   }
   const out = new Float64Array(d * d);
   for (let i = 0; i < d; i++) {
