@@ -1,0 +1,136 @@
+/**
+ * The `Figure`: one standalone SVG that saves to .svg or .png and shows itself in a notebook
+ * cell.
+ *
+ * @module
+ */
+import type * as Plot from "@observablehq/plot";
+import { SaddleError } from "../errors/saddle_error.ts";
+import { withDisplay } from "../estimate/display.ts";
+import { svgToPng } from "./_png.ts";
+
+/** What a {@linkcode Figure} knows besides its SVG. */
+export interface FigureInfo {
+  /** Width in px (SVG user units). */
+  readonly width: number;
+  /** Height in px (SVG user units). */
+  readonly height: number;
+  /** Title, used in the text form. */
+  readonly title?: string;
+  /** The builder's marks, to compose into your own `Plot.plot`. */
+  readonly marks?: readonly Plot.Markish[];
+  /** Every Plot layer the figure was drawn from (options without `document`). */
+  readonly layers?: readonly Plot.PlotOptions[];
+}
+
+/** Options of {@linkcode Figure.toPNG} and {@linkcode Figure.save}. */
+export interface PngOptions {
+  /** Device pixels per SVG unit (default 2, for sharp figures in print). */
+  scale?: number;
+}
+
+/**
+ * A figure held as standalone SVG markup: namespaced, a white background, fonts given as a
+ * family list, no external references. Shows as `image/svg+xml` in a Jupyter cell.
+ *
+ * @example
+ * ```ts
+ * import { Figure } from "./figure.ts";
+ * import { displayBundle } from "../estimate/display.ts";
+ * import assert from "node:assert/strict";
+ * const svg = '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10" viewBox="0 0 10 10"></svg>';
+ * const f = new Figure(svg, { width: 10, height: 10, title: "empty" });
+ * assert.equal(f.toSVG(), svg);
+ * assert.equal(displayBundle(f)?.["image/svg+xml"], svg);
+ * assert.match(String(f), /empty/);
+ * ```
+ */
+export class Figure {
+  /** Width in px. */
+  readonly width: number;
+  /** Height in px. */
+  readonly height: number;
+  /** Title ("" when none). */
+  readonly title: string;
+  /** The builder's marks: spread them into your own `Plot.plot({ marks: [...] })`. */
+  readonly marks: readonly Plot.Markish[];
+  /** The Plot layers (options) the figure was drawn from. */
+  readonly layers: readonly Plot.PlotOptions[];
+  readonly #svg: string;
+
+  /**
+   * Wrap standalone SVG markup (builders do this for you).
+   *
+   * @param svg Standalone SVG markup.
+   * @param info Size, title and the marks it was drawn from.
+   */
+  constructor(svg: string, info: FigureInfo) {
+    if (!svg.trimStart().startsWith("<svg")) {
+      throw new SaddleError("invalid-argument", "a Figure needs SVG markup starting with <svg", {
+        parameter: "svg",
+      });
+    }
+    this.#svg = svg;
+    this.width = info.width;
+    this.height = info.height;
+    this.title = info.title ?? "";
+    this.marks = info.marks ?? [];
+    this.layers = info.layers ?? [];
+    withDisplay(this, (f) => ({ "image/svg+xml": f.toSVG(), "text/plain": f.toString() }));
+  }
+
+  /** The standalone SVG markup. */
+  toSVG(): string {
+    return this.#svg;
+  }
+
+  /**
+   * Render to PNG bytes with resvg and the embedded DejaVu Sans font.
+   *
+   * @example
+   * ```ts
+   * import { Figure } from "./figure.ts";
+   * import assert from "node:assert/strict";
+   * const f = new Figure('<svg xmlns="http://www.w3.org/2000/svg" width="20" height="10"></svg>', { width: 20, height: 10 });
+   * const png = await f.toPNG({ scale: 1 });
+   * assert.deepEqual([...png.subarray(1, 4)], [80, 78, 71]); // "PNG"
+   * ```
+   */
+  toPNG(options: PngOptions = {}): Promise<Uint8Array> {
+    return svgToPng(this.#svg, options.scale ?? 2);
+  }
+
+  /**
+   * Save as `.svg` (the markup) or `.png` (rendered at `scale`); other extensions throw.
+   *
+   * @example
+   * ```ts
+   * import { Figure } from "./figure.ts";
+   * import assert from "node:assert/strict";
+   * const f = new Figure('<svg xmlns="http://www.w3.org/2000/svg" width="20" height="10"></svg>', { width: 20, height: 10 });
+   * const path = await Deno.makeTempFile({ suffix: ".svg" });
+   * await f.save(path);
+   * assert.equal(await Deno.readTextFile(path), f.toSVG());
+   * await Deno.remove(path);
+   * ```
+   */
+  async save(path: string, options: PngOptions = {}): Promise<void> {
+    const ext = path.toLowerCase().match(/\.([a-z0-9]+)$/)?.[1];
+    if (ext === "svg") {
+      await Deno.writeTextFile(path, this.#svg);
+    } else if (ext === "png") {
+      await Deno.writeFile(path, await this.toPNG(options));
+    } else {
+      throw new SaddleError(
+        "unsupported",
+        `cannot save a figure as "${path}": give a path ending in .svg or .png`,
+        { file: path },
+      );
+    }
+  }
+
+  /** Text form: size and title. */
+  toString(): string {
+    return `Figure ${this.width}×${this.height}${this.title ? `: ${this.title}` : ""}`;
+  }
+}

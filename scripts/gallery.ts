@@ -1,0 +1,134 @@
+/**
+ * Regenerates docs/gallery/*.svg: every figure saddlekit draws, on the bundled demo data of
+ * the wind-farm scenario (data/demo) or on small seeded toy densities. Run with
+ * `deno task gallery`; `--png` also writes a PNG beside each SVG (for a quick look, not
+ * committed); `--out DIR` writes to another folder (the tests use it).
+ *
+ * @module
+ */
+import * as sk from "../mod.ts";
+
+const outArg = Deno.args.indexOf("--out");
+const out = outArg >= 0
+  ? new URL(`file://${Deno.realPathSync(Deno.args[outArg + 1])}/`)
+  : new URL("../docs/gallery/", import.meta.url);
+const demo = new URL("../data/demo/", import.meta.url);
+const png = Deno.args.includes("--png");
+const SEED = 2026;
+
+/** The demo data and the fits every figure below draws on. */
+export async function demoSetup() {
+  const real = await sk.readSamples(new URL("turbine_real.csv", demo).pathname);
+  const fake = await sk.readSamples(new URL("turbine_fake.npy", demo).pathname, {
+    names: real.columns,
+  });
+  const scores = JSON.parse(await Deno.readTextFile(new URL("disc_scores.json", demo))) as {
+    real: number[];
+    fake: number[];
+  };
+  const fit = (s: sk.Samples) => sk.fitGaussianMixture(s, { components: 3, seed: SEED });
+  return { real, fake, scores, pData: fit(real), pModel: fit(fake), fit };
+}
+
+async function write(name: string, fig: sk.Figure): Promise<void> {
+  await fig.save(new URL(`${name}.svg`, out).pathname);
+  if (png) await fig.save(new URL(`${name}.png`, out).pathname);
+  console.log(`${new URL(`${name}.svg`, out).pathname}  ${fig.width}×${fig.height}`);
+}
+
+if (import.meta.main) {
+  await Deno.mkdir(out, { recursive: true });
+  const { real, fake, scores, pData, pModel, fit } = await demoSetup();
+  const labels = ["wind speed", "vibration"], units = ["m/s", "mm/s"];
+
+  // 1-D: the wind-speed column of both sides.
+  const wReal = sk.selectColumns(real, [0]), wFake = sk.selectColumns(fake, [0]);
+  const w1 = fit(wReal), w2 = fit(wFake);
+  await write(
+    "densities_1d",
+    sk.plotDensities(w1, w2, {
+      xLabel: "wind speed",
+      xUnit: "m/s",
+      samples: { real: wReal, generated: wFake },
+      subtitle: `Gaussian-mixture fits (3 components), n = ${real.n} real, n = ${fake.n} ` +
+        "generated turbine readings",
+    }),
+  );
+  await write(
+    "discriminator_map",
+    sk.plotDiscriminatorMap({ pData, pModel, real, generated: fake, labels, units, seed: SEED }),
+  );
+  await write("objective", sk.plotObjective());
+
+  const dec = sk.optimumDecomposition(pData, pModel, { method: "grid", seed: SEED });
+  await write("decomposition", sk.plotDecomposition(dec));
+
+  const names = [
+    ["KL(p_data ‖ p_g)", "kl"],
+    ["KL(p_g ‖ p_data)", "reverse-kl"],
+    ["JSD", "jensen-shannon"],
+    ["squared Hellinger", "squared-hellinger"],
+    ["total variation", "total-variation"],
+  ] as const;
+  await write(
+    "divergences",
+    sk.plotDivergences(
+      names.map(([label, name]) => ({
+        name: label,
+        estimate: sk.fDivergence(pData, pModel, name, { seed: SEED }),
+        ...(name === "jensen-shannon"
+          ? { reference: Math.LN2, referenceLabel: "upper bound ln 2" }
+          : {}),
+      })),
+      { title: "Divergences between the fitted real and generated densities" },
+    ),
+  );
+
+  const gap = sk.discriminatorGap({
+    dReal: scores.real,
+    dFake: scores.fake,
+    scale: "prob",
+    real,
+    fake,
+    pData,
+    pModel,
+    seed: SEED,
+  });
+  await write("reliability", sk.plotReliability(gap));
+  // V(D, G) of the trained discriminator on the held-out rows, bootstrapped side by side.
+  const logD = scores.real.map(Math.log), log1mD = scores.fake.map((p) => Math.log1p(-p));
+  const mean = (v: number[], idx: Uint32Array) => idx.reduce((t, i) => t + v[i], 0) / idx.length;
+  const vBoot = sk.bootstrap(
+    [logD.length, log1mD.length],
+    (ir, jf) => mean(logD, ir) + mean(log1mD, jf),
+    { seed: SEED, replicates: 2000, unit: "nats" },
+  );
+  await write(
+    "bootstrap",
+    sk.plotBootstrap(vBoot, {
+      name: "V(D, G) of the trained discriminator",
+      reference: -Math.log(4),
+      referenceLabel: "equilibrium −ln 4",
+    }),
+  );
+
+  await write(
+    "generator_objectives",
+    sk.plotGeneratorObjectives(sk.generatorObjectives(scores.fake, { scale: "prob" })),
+  );
+
+  await write(
+    "fit_1d",
+    sk.plotFit([
+      { density: sk.fitKde(wReal, { bandwidth: "scott" }), samples: wReal },
+      { density: sk.fitKde(wFake, { bandwidth: "scott" }), samples: wFake, role: "generated" },
+    ], { labels: ["wind speed"], units: ["m/s"], title: "KDE fits (Scott) against histograms" }),
+  );
+  await write(
+    "fit_2d",
+    sk.plotFit([
+      { density: pData, samples: real },
+      { density: pModel, samples: fake, role: "generated" },
+    ], { labels, units, seed: SEED, title: "Gaussian-mixture fits against the samples" }),
+  );
+}

@@ -1,0 +1,208 @@
+/**
+ * Every notebook in notebooks/ runs top to bottom under the real Deno Jupyter kernel
+ * (Debian's nbclient through tests/reference/run_notebook.py): no error output, every cell
+ * tagged "figure" shows image/svg+xml, no cell takes a minute, and the key numbers a
+ * notebook prints in its "record" cell equal what the library returns when this test calls
+ * it directly with the same data and seeds.
+ *
+ * Ignored (loudly, naming the install commands) where Jupyter or the Deno kernel is missing;
+ * with SADDLEKIT_REQUIRE_JUPYTER=1 (CI) a missing piece fails instead.
+ */
+import assert from "node:assert/strict";
+import * as sk from "../../mod.ts";
+import {
+  assertJupyter,
+  ignoreWithoutJupyter,
+  problems,
+  REQUIRE_JUPYTER,
+  runNotebook,
+} from "./_notebooks.ts";
+
+const dir = new URL("../../notebooks/", import.meta.url);
+const demo = (name: string) => new URL(`../../data/demo/${name}`, import.meta.url).pathname;
+const notebooks = [...Deno.readDirSync(dir)]
+  .filter((e) => e.isFile && e.name.endsWith(".ipynb"))
+  .map((e) => e.name)
+  .sort();
+
+interface NotebookJson {
+  nbformat: number;
+  metadata: { kernelspec?: { name?: string; language?: string } };
+  cells: { cell_type: string; source: string[] | string; metadata?: { tags?: string[] } }[];
+}
+
+const source = (c: NotebookJson["cells"][number]) =>
+  Array.isArray(c.source) ? c.source.join("") : c.source;
+
+async function demoSides() {
+  const real = await sk.readSamples(demo("turbine_real.csv"));
+  const fake = await sk.readSamples(demo("turbine_fake.npy"), { names: real.columns });
+  const scores = JSON.parse(await Deno.readTextFile(demo("disc_scores.json"))) as {
+    real: number[];
+    fake: number[];
+  };
+  return { real, fake, scores };
+}
+
+/** The key numbers each notebook records, recomputed here with the library directly. */
+const EXPECTED: Record<string, () => Promise<Record<string, unknown>>> = {
+  "01_quick_start.ipynb": async () => {
+    const SEED = 7;
+    const { real, fake, scores } = await demoSides();
+    const pData = sk.fitGaussianMixture(real, { components: 3, seed: SEED });
+    const pModel = sk.fitGaussianMixture(fake, { components: 3, seed: SEED });
+    const dec = sk.optimumDecomposition(pData, pModel, { method: "grid", seed: SEED });
+    const decMc = sk.optimumDecomposition(pData, pModel, {
+      method: "monte-carlo",
+      n: 20000,
+      seed: SEED,
+    });
+    const vTrained = sk.valueFunction({
+      dReal: scores.real,
+      dFake: scores.fake,
+      scale: "prob",
+      seed: SEED,
+    });
+    const gap = sk.discriminatorGap({
+      dReal: scores.real,
+      dFake: scores.fake,
+      scale: "prob",
+      real,
+      fake,
+      pData,
+      pModel,
+      seed: SEED,
+    });
+    return {
+      valueAtOptimum: dec.value.value,
+      jsd: dec.jsd.value,
+      klRealMix: dec.klRealMix.value,
+      klFakeMix: dec.klFakeMix.value,
+      residual: dec.residual.value,
+      valueMonteCarlo: decMc.value.value,
+      valueTrained: vTrained.value,
+      gap: gap.gap?.value ?? null,
+      ece: gap.ece.value,
+      classifierLogLoss: sk.classifierDiscriminator(real, fake, { features: "rff", seed: SEED })
+        .heldOutLogLoss.value,
+    };
+  },
+  "02_checking_claims.ipynb": async () => {
+    const SEED = 11;
+    const { real, fake, scores } = await demoSides();
+    const pData = sk.fitGaussianMixture(real, { components: 3, seed: SEED });
+    const pModel = sk.fitGaussianMixture(fake, { components: 3, seed: SEED });
+    const dec = sk.optimumDecomposition(pData, pModel, { method: "grid", seed: SEED });
+    const decMc = sk.optimumDecomposition(pData, pModel, {
+      method: "monte-carlo",
+      n: 20000,
+      seed: SEED,
+    });
+    const same = sk.gaussianMixture({
+      weights: [0.5, 0.5],
+      means: [[4, 1.4], [10, 3.2]],
+      covariances: [[[1, 0.1], [0.1, 0.1]], [[2, 0.4], [0.4, 0.4]]],
+    });
+    const decSame = sk.optimumDecomposition(same, same, { method: "grid", seed: SEED });
+    const near = sk.optimumDecomposition(sk.uniformBox(0, 1), sk.uniformBox(1.5, 2.5), {
+      method: "grid",
+      seed: SEED,
+    });
+    const sweep = [0, 0.5, 1, 2, 4, 8].map((mu) =>
+      sk.fDivergence(sk.gaussian([0], [[1]]), sk.gaussian([mu], [[1]]), "jensen-shannon", {
+        seed: SEED,
+      }).value
+    );
+    const gap = sk.discriminatorGap({
+      dReal: scores.real,
+      dFake: scores.fake,
+      scale: "prob",
+      real,
+      fake,
+      pData,
+      pModel,
+      seed: SEED,
+    });
+    return {
+      failed: 0,
+      jsdDemo: dec.jsd.value,
+      valueDemo: dec.value.value,
+      valueDemoMonteCarlo: decMc.value.value,
+      identityGap: dec.value.value - (-Math.log(4) + 2 * dec.jsd.value),
+      valueIdentical: decSame.value.value,
+      jsdDisjoint: near.jsd.value,
+      valueDisjoint: near.value.value,
+      jsdSweep: sweep,
+      gapTrained: gap.gap!.value,
+    };
+  },
+};
+
+Deno.test("notebooks: nbformat 4, Deno kernelspec, ../mod.ts import, figure and record cells", async () => {
+  assert.ok(notebooks.length >= 2, `found ${notebooks.length} notebooks`);
+  for (const name of notebooks) {
+    const nb = JSON.parse(await Deno.readTextFile(new URL(name, dir))) as NotebookJson;
+    assert.equal(nb.nbformat, 4, name);
+    assert.equal(nb.metadata.kernelspec?.name, "deno", name);
+    assert.equal(nb.metadata.kernelspec?.language, "typescript", name);
+    const code = nb.cells.filter((c) => c.cell_type === "code");
+    assert.ok(
+      code.some((c) => source(c).includes('from "../mod.ts"')),
+      `${name} imports ../mod.ts`,
+    );
+    const tagged = (t: string) => code.filter((c) => c.metadata?.tags?.includes(t)).length;
+    assert.ok(tagged("figure") >= 3, `${name} has figure cells`);
+    assert.equal(tagged("record"), 1, `${name} has one record cell`);
+    assert.ok(EXPECTED[name], `${name} needs its key numbers checked in EXPECTED`);
+    for (const c of code) {
+      const outputs = (c as unknown as { outputs?: unknown[] }).outputs ?? [];
+      assert.equal(outputs.length, 0, `${name}: commit notebooks without outputs`);
+    }
+  }
+});
+
+for (const name of notebooks) {
+  Deno.test({
+    name:
+      `notebook ${name} runs under the Deno kernel, shows its figures, records the library's numbers`,
+    ignore: ignoreWithoutJupyter(),
+    fn: async () => {
+      if (REQUIRE_JUPYTER) assertJupyter();
+      const run = await runNotebook(new URL(name, dir).pathname, 60);
+      assert.deepEqual(problems(run), [], `${name} (executed copy: ${run.executed})`);
+      const expected = await EXPECTED[name]();
+      for (const [key, value] of Object.entries(expected)) {
+        assert.deepEqual(run.records[key], value, `${name}: recorded ${key}`);
+      }
+    },
+  });
+}
+
+Deno.test({
+  name: "notebook harness: an error and a figure cell without SVG are both reported",
+  ignore: ignoreWithoutJupyter(),
+  fn: async () => {
+    if (REQUIRE_JUPYTER) assertJupyter();
+    const tmp = await Deno.makeTempDir();
+    const cell = (src: string, tags: string[] = []) => ({
+      cell_type: "code",
+      execution_count: null,
+      metadata: { tags },
+      outputs: [],
+      source: [src],
+    });
+    const nb = {
+      nbformat: 4,
+      nbformat_minor: 5,
+      metadata: { kernelspec: { name: "deno", display_name: "Deno", language: "typescript" } },
+      cells: [cell('"just text"', ["figure"]), cell('throw new Error("boom")'), cell("1 + 1")],
+    };
+    const path = `${tmp}/broken.ipynb`;
+    await Deno.writeTextFile(path, JSON.stringify(nb));
+    const found = problems(await runNotebook(path, 30));
+    assert.ok(found.some((p) => /figure cell 0 showed text\/plain/.test(p)), found.join("\n"));
+    assert.ok(found.some((p) => /cell 1: Error: boom/.test(p)), found.join("\n"));
+    assert.ok(found.some((p) => /cell 2 did not run/.test(p)), found.join("\n"));
+    await Deno.remove(tmp, { recursive: true });
+  },
+});
