@@ -225,7 +225,7 @@ Deno.test("kde: zero weights drop points; weights equal to counts match duplicat
 });
 
 Deno.test({
-  name: "kde: diffusion bandwidth vs an independent numpy/scipy transcription of Botev et al. 2010",
+  name: "kde: diffusion bandwidth vs an independent numpy/scipy implementation of Botev et al. 2010",
   ignore: ignoreWithoutPython(["numpy", "scipy"]),
   async fn() {
     const r = new Rng(21);
