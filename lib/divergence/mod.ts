@@ -9,3 +9,4 @@ export * from "./f_divergence.ts";
 export * from "./gaussian_closed_forms.ts";
 export * from "./discrete.ts";
 export * from "./integration_options.ts";
+export * from "./divergence_from_samples.ts";

@@ -25,3 +25,4 @@
 export * from "./value_function.ts";
 export * from "./generator_objectives.ts";
 export * from "./optimum_decomposition.ts";
+export * from "./sample_decomposition.ts";

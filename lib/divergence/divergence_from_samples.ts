@@ -1,0 +1,146 @@
+/**
+ * f-divergences between two sample sets with intervals that include the sampling error of
+ * the data: fit a density to each side, compute the plug-in divergence, and bootstrap the
+ * whole pipeline (resample, refit, recompute).
+ *
+ * @module
+ */
+import type { Density } from "../density/types.ts";
+import type { BootstrapEstimate } from "../estimate/bootstrap.ts";
+import type { Estimate } from "../estimate/estimate.ts";
+import { escapeHtml, htmlTable, textTable } from "../estimate/format.ts";
+import type { RandomSource } from "../random/rng.ts";
+import type { Samples, SamplesInput } from "../samples/samples.ts";
+import {
+  fitBoth,
+  integrationText,
+  prepareRefit,
+  refitEstimate,
+  refitIntegration,
+  refitNotes,
+  runReplicates,
+  withHidden,
+} from "./_refit_bootstrap.ts";
+import { fDivergence, type FDivergenceOptions } from "./f_divergence.ts";
+import { type FDivergenceName, type FDivergenceSpec, fDivergenceSpec } from "./f_divergences.ts";
+
+/** Options of the refit bootstrap shared by the sample-based estimators. */
+export interface RefitOptions {
+  /**
+   * Fitter from samples to a density, called on each side and on every resample
+   * (default: a Gaussian KDE with Scott's rule, `fitKde(s, { bandwidth: "scott" })`).
+   */
+  fit?: (s: Samples) => Density;
+  /** Refit bootstrap replicates (default 200). */
+  replicates?: number;
+  /**
+   * Seed of the resampling and of each replicate's integration draws; the plug-in uses it
+   * for its own integration draws (default 0). The same seed gives the same bits.
+   */
+  seed?: RandomSource;
+  /** Confidence level of the percentile intervals (default 0.95). */
+  level?: number;
+}
+
+/**
+ * Options of {@linkcode divergenceFromSamples}: the integration options of
+ * {@linkcode fDivergence} plus the refit bootstrap. Defaults differ from fDivergence's to
+ * keep replicates cheap: grid with 500 cells (1-D) or 48 x 48 (2-D), Monte Carlo with 2000
+ * draws a density for d > 2.
+ */
+export interface SampleDivergenceOptions extends FDivergenceOptions, RefitOptions {}
+
+/**
+ * A divergence from samples: the plug-in value between the two fits, with the standard
+ * error and percentile interval of the refit bootstrap.
+ */
+export interface SampleDivergence extends BootstrapEstimate {
+  /** The plug-in divergence between the fits, with its numerical error bar only (hidden). */
+  readonly plugIn: Estimate;
+  /** Replicates whose fit or recomputation failed (hidden). */
+  readonly failed: number;
+}
+
+/**
+ * The f-divergence `D_f(P || Q)` between the distributions behind two sample sets, with an
+ * interval that includes the sampling error of the data, not only the numerical error.
+ *
+ * A density is fitted to each side with `fit` (default: Gaussian KDE, Scott's rule) and the
+ * divergence between the fits computed with {@linkcode fDivergence} (the plug-in value).
+ * Then, `replicates` times, each sample set is resampled with replacement on its own, both
+ * densities are refitted and the divergence recomputed with fresh integration draws; the
+ * standard deviation of the replicates is the se and their percentiles the interval
+ * (method "bootstrap-percentile (refit)"). The notes say how much of the variance is
+ * numerical, how many replicates failed, and give the bootstrap bias estimate: plug-in
+ * divergences between fitted densities are biased upward on small samples, and the
+ * interval does not correct for that. The replicates (finite ones, in draw order) are the
+ * non-enumerable `replicates`, so `plotBootstrap` accepts the result. Any name of
+ * {@linkcode F_DIVERGENCES} or "alpha" (with `alpha`) works; `base: 2` gives bits.
+ *
+ * References: Efron 1979, Bootstrap methods: another look at the jackknife (Ann. Stat.);
+ * Efron & Tibshirani 1993, An Introduction to the Bootstrap (ch. 6, 10, 13); Nowozin,
+ * Cseke & Tomioka 2016, f-GAN (NeurIPS) for the divergence table.
+ *
+ * @example KL between two Gaussian samples (closed form 0.5 nats)
+ * ```ts
+ * import { divergenceFromSamples } from "./divergence_from_samples.ts";
+ * import { gaussian } from "../density/gaussian.ts";
+ * import assert from "node:assert/strict";
+ * const real = gaussian(0, 1).sample(200, 1), fake = gaussian(1, 1).sample(200, 2);
+ * const kl = divergenceFromSamples(real, fake, "kl", { replicates: 40, seed: 3 });
+ * assert.equal(kl.method, "bootstrap-percentile (refit)");
+ * assert.equal(kl.replicates.length, 40);
+ * assert.ok(kl.ci![0] < kl.value && kl.value < kl.ci![1]);
+ * // The sampling error of 2 x 200 points dwarfs the quadrature error of the plug-in.
+ * assert.ok(kl.se! > 10 * kl.plugIn.se!);
+ * ```
+ */
+export function divergenceFromSamples(
+  real: Samples | SamplesInput,
+  fake: Samples | SamplesInput,
+  name: FDivergenceName | FDivergenceSpec,
+  options: SampleDivergenceOptions = {},
+): SampleDivergence {
+  const setup = prepareRefit(real, fake, options);
+  const spec = fDivergenceSpec(name, options);
+  const { fit: _fit, replicates: _b, ...rest } = options;
+  const integ = refitIntegration(setup.real.d, { ...rest, seed: setup.seed, level: setup.level });
+  const [p, q] = fitBoth(setup, setup.real, setup.fake);
+  const plugIn = fDivergence(p, q, spec, integ);
+  const run = runReplicates(setup, 1, (pb, qb, r) => [
+    fDivergence(pb, qb, spec, { ...integ, seed: r }).value,
+  ]);
+  const est = refitEstimate(setup, run.columns[0], {
+    what: spec.label,
+    plugIn,
+    failed: run.failed,
+    bias: true,
+    plugInNotes: true,
+    notes: [spec.label, ...refitNotes(setup, run, spec.label, integrationText(integ))],
+    ...(plugIn.unit ? { unit: plugIn.unit } : {}),
+  });
+  const out = withHidden(
+    est,
+    { plugIn, failed: run.failed },
+    () => divergenceBundle(out, spec.label),
+  ) as SampleDivergence;
+  return out;
+}
+
+function divergenceBundle(e: SampleDivergence, label: string): Record<string, string> {
+  const pct = `${Math.round(e.level * 1000) / 10}%`;
+  const header = ["estimate", `value ± se [${pct} interval]`, "error included"];
+  const rows: [string, Estimate, string][] = [
+    [label, e, "sampling error of the data + numerical (refit bootstrap)"],
+    ["plug-in, fits as given", e.plugIn, `numerical only (${e.plugIn.method})`],
+  ];
+  const caption = `${label} from samples (${e.replicates.length} finite refit replicates, ` +
+    `${e.unit ?? "nats"})`;
+  return {
+    "text/plain": `${caption}\n${textTable(header, rows)}\n${e.notes.join("\n")}`,
+    "text/html": htmlTable(header, rows, caption) +
+      `<ul style="font-size:smaller">${
+        e.notes.map((n) => `<li>${escapeHtml(n)}</li>`).join("")
+      }</ul>`,
+  };
+}
