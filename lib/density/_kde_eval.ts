@@ -152,6 +152,11 @@ function sortedEvaluator(z0: Float64Array, lw0: Float64Array | null, n: number) 
         if (k === n || (k > 0 && x - z[k - 1] <= z[k] - x)) near = k - 1;
         const dn = x - z[near];
         const ref = lw[near] - 0.5 * dn * dn;
+        // (x - z)² overflowed: every term is below the smallest double (log-density -∞).
+        if (ref === -Infinity) {
+          out[r - from] = -Infinity;
+          continue;
+        }
         const radius = Math.sqrt(2 * (lwMax - ref + LOG_CUT));
         // Boxes that may hold a centre within `radius` of x.
         let b = lowerBound(last, nb, x - radius);
@@ -197,7 +202,12 @@ function blockedEvaluator(z: Float64Array, d: number, lw: Float64Array | null, n
         }
         let best = Infinity;
         for (let j = 0; j < n; j++) if (key[j] < best) best = key[j];
-        // key = |q - z_j|² - 2 lw_j, i.e. twice the negative log term.
+        // key = |q - z_j|² - 2 lw_j, i.e. twice the negative log term. All keys overflowed:
+        // the log-density is -∞ (and best - key would be ∞ - ∞ = NaN).
+        if (best === Infinity) {
+          out[r - from] = -Infinity;
+          continue;
+        }
         const lim = best + 2 * LOG_CUT;
         let s = 0;
         for (let j = 0; j < n; j++) {
@@ -311,6 +321,10 @@ function treeEvaluator(z0: Float64Array, d: number, lw0: Float64Array | null, n:
               stack[sp++] = rc;
             }
           }
+        }
+        if (best === Infinity) {
+          out[r - from] = -Infinity; // every key overflowed: log-density -∞
+          continue;
         }
         // Pass 2: sum every term within LOG_CUT of the largest.
         const lim = best + LOG_CUT;

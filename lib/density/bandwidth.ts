@@ -6,10 +6,13 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { quantileSorted } from "../estimate/bootstrap.ts";
 import { fft, nextPow2 } from "./_fft.ts";
 
 /**
  * Effective sample size `(Σw)² / Σw²` of weights (Kish); `n` when `weights` is undefined.
+ *
+ * References: Kish 1965, Survey Sampling (Wiley), the design-effect approximation.
  *
  * @example
  * ```ts
@@ -296,12 +299,7 @@ function weightedQuantile(
   const n = order.length;
   let uniform = true;
   for (let i = 1; i < n && uniform; i++) uniform = w[i] === w[0];
-  if (uniform) {
-    const h = (n - 1) * p;
-    const lo = Math.floor(h);
-    const hi = Math.min(n - 1, lo + 1);
-    return x[order[lo]] + (h - lo) * (x[order[hi]] - x[order[lo]]);
-  }
+  if (uniform) return quantileSorted(Float64Array.from(order, (i) => x[i]), p);
   let cum = 0, prevPos = 0, prevX = x[order[0]];
   for (let k = 0; k < n; k++) {
     const wk = w[order[k]];

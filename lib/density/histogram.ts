@@ -4,6 +4,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { quantileSorted } from "../estimate/bootstrap.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples, samples, type SamplesInput } from "../samples/samples.ts";
 import { checkQuery, checkSampleSize, description } from "./_common.ts";
@@ -100,7 +101,8 @@ export function fitHistogram(
     }
     let b = pick(options.bins, c, d, "bins");
     if (b === undefined) {
-      const iqr = col[Math.floor(0.75 * (n - 1))] - col[Math.floor(0.25 * (n - 1))];
+      // Interpolated quartiles (numpy's default, type 7), as numpy's "fd" rule uses.
+      const iqr = quantileSorted(col, 0.75) - quantileSorted(col, 0.25);
       const width = 2 * iqr * Math.pow(n, -1 / 3);
       b = width > 0 ? Math.ceil((upper[c] - lower[c]) / width) : Math.ceil(Math.sqrt(n));
       b = Math.max(1, Math.min(512, b));

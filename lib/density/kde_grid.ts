@@ -84,13 +84,15 @@ export function kdeGrid(kde: KdeDensity, options: KdeGridOptions = {}): KdeGrid 
   });
   const pts = kde.points.data, n = kde.points.n, w = kde.weights;
   const lo = new Float64Array(d), hi = new Float64Array(d);
+  // Range of the kernel centres per axis, used for the default grid and the binning grid.
+  const dataMin = new Float64Array(d).fill(Infinity), dataMax = new Float64Array(d).fill(-Infinity);
   for (let c = 0; c < d; c++) {
-    let mn = Infinity, mx = -Infinity;
     for (let i = 0; i < n; i++) {
       const v = pts[i * d + c];
-      if (v < mn) mn = v;
-      if (v > mx) mx = v;
+      if (v < dataMin[c]) dataMin[c] = v;
+      if (v > dataMax[c]) dataMax[c] = v;
     }
+    const mn = dataMin[c], mx = dataMax[c];
     const sd = Math.sqrt(H[c * d + c]);
     lo[c] = options.lower !== undefined ? perAxis(options.lower, d, "lower")[c] : mn - 4 * sd;
     hi[c] = options.upper !== undefined ? perAxis(options.upper, d, "upper")[c] : mx + 4 * sd;
@@ -115,12 +117,7 @@ export function kdeGrid(kde: KdeDensity, options: KdeGridOptions = {}): KdeGrid 
   // The binning grid extends the output grid (same spacing) so that every centre is binned.
   const extLo: number[] = [], extN: number[] = [], offset: number[] = [];
   for (let c = 0; c < d; c++) {
-    let mn = Infinity, mx = -Infinity;
-    for (let i = 0; i < n; i++) {
-      const v = pts[i * d + c];
-      if (v < mn) mn = v;
-      if (v > mx) mx = v;
-    }
+    const mn = dataMin[c], mx = dataMax[c];
     const below = Math.max(0, Math.ceil((lo[c] - mn) / fine[c]));
     const above = Math.max(0, Math.ceil((mx - hi[c]) / fine[c]));
     if (below + above > 64 * fineSizes[c]) {

@@ -17,3 +17,6 @@ export * from "./kde_grid.ts";
 export * from "./gaussian_mixture_fit.ts";
 export * from "./gaussian_mixture_select.ts";
 export * from "./histogram.ts";
+// Types of other folders that this folder's API mentions, re-exported so the module documents alone.
+export type { RandomSource, Rng } from "../random/rng.ts";
+export type { SampleRecord, Samples, SamplesInput } from "../samples/samples.ts";

@@ -91,8 +91,8 @@ export function fitLogistic(
     } catch {
       throw new SaddleError(
         "numerical",
-        "the logistic-regression Hessian is singular: increase `l2` or use fewer features",
-        { parameter: "l2" },
+        "the logistic-regression Hessian is singular: increase `regularization` or use fewer features",
+        { parameter: "regularization" },
       );
     }
     const delta = choleskySolve(L, q, g);

@@ -26,6 +26,8 @@ export interface ClassifierDiscriminatorOptions {
   /** RBF bandwidth in standardised units for "rff" (default: median pairwise distance). */
   bandwidth?: number;
   /** Ridge penalty on the coefficients of the mean log-loss (default 1e-3). */
+  regularization?: number;
+  /** @deprecated The former name of `regularization`; still accepted. */
   l2?: number;
   /** Cross-fitting folds (default 5; >= 2). */
   folds?: number;
@@ -87,8 +89,29 @@ function fitModel(
     y[i] = isReal ? 1 : 0;
     s[i] = isReal ? pooled.n / (2 * real.n) : pooled.n / (2 * fake.n);
   }
-  const fit = fitLogistic(x, features.dim, y, s, options.l2 ?? 1e-3, options.maxIterations ?? 100);
+  const fit = fitLogistic(x, features.dim, y, s, ridgeOf(options), options.maxIterations ?? 100);
   return { features, fit };
+}
+
+/** The ridge penalty from `regularization` or its former name `l2` (default 1e-3), checked. */
+function ridgeOf(options: ClassifierDiscriminatorOptions): number {
+  const { regularization, l2 } = options;
+  if (regularization !== undefined && l2 !== undefined && regularization !== l2) {
+    throw new SaddleError(
+      "invalid-argument",
+      `regularization and l2 name the same penalty but differ (${regularization} vs ${l2}); ` +
+        "give regularization only",
+      { parameter: "regularization" },
+    );
+  }
+  const name = regularization === undefined && l2 !== undefined ? "l2" : "regularization";
+  const value = regularization ?? l2 ?? 1e-3;
+  if (!(value >= 0) || value === Infinity) {
+    throw new SaddleError("invalid-argument", `${name} must be >= 0 and finite, got ${value}`, {
+      parameter: name,
+    });
+  }
+  return value;
 }
 
 function predict(m: Model, x: Samples): Float64Array {
@@ -147,10 +170,7 @@ export function classifierDiscriminator(
       );
     }
   }
-  const l2 = options.l2 ?? 1e-3;
-  if (!(l2 >= 0)) {
-    throw new SaddleError("invalid-argument", `l2 must be >= 0, got ${l2}`, { parameter: "l2" });
-  }
+  ridgeOf(options);
   const rng = toRng(options.seed ?? 0);
   const permR = rng.fork("folds-real").permutation(real.n);
   const permF = rng.fork("folds-fake").permutation(fake.n);
@@ -173,7 +193,9 @@ export function classifierDiscriminator(
   const full = fitModel(real, fake, options, rng.fork("rff-full"));
   converged &&= full.fit.converged;
   const notes: string[] = [];
-  if (!converged) notes.push("a Newton fit stopped before converging: raise maxIterations or l2");
+  if (!converged) {
+    notes.push("a Newton fit stopped before converging: raise maxIterations or regularization");
+  }
   const heldOutLogLoss = twoSampleSum(
     logitReal.map((l) => -logSigmoid(l)),
     logitFake.map((l) => -logSigmoid(-l)),

@@ -50,9 +50,9 @@ export interface DiscriminatorGapInput {
 
 /** One reliability bin; weights give each side half the mass (equal priors). */
 export interface ReliabilityBin {
-  /** Lower edge. */
+  /** Lower edge (open, except 0 for the first bin). */
   readonly lo: number;
-  /** Upper edge. */
+  /** Upper edge (closed): the bin is (lo, hi], as in Guo et al. 2017. */
   readonly hi: number;
   /** Points (real + generated) in the bin. */
   readonly count: number;
@@ -172,7 +172,10 @@ export function discriminatorGap(input: DiscriminatorGapInput): DiscriminatorGap
   if (sr && sf) {
     const oR = sr.map(logSigmoid), oF = sf.map((l) => logSigmoid(-l));
     optimalValue = twoSampleSum(oR, oF, opts);
-    const gR = oR.map((v, i) => v - tR[i]), gF = oF.map((v, i) => v - tF[i]);
+    // Where D and D* agree the point adds 0, including where both terms are -Infinity
+    // (both saturated the same way), which plain subtraction would make NaN.
+    const diff = (a: number, b: number) => (a === b ? 0 : a - b);
+    const gR = oR.map((v, i) => diff(v, tR[i])), gF = oF.map((v, i) => diff(v, tF[i]));
     gap = twoSampleSum(gR, gF, opts);
     if (gap.ci && gap.ci[1] < 0) {
       notes.push(
@@ -188,9 +191,19 @@ export function discriminatorGap(input: DiscriminatorGapInput): DiscriminatorGap
     };
   }
 
-  const pR = lr.map(sigmoid), pF = lf.map(sigmoid);
+  // Probabilities as given (not through the clipped logit and back, which moves outputs
+  // on a bin edge by rounding); from logits, the logistic.
+  const pR = input.scale === "prob" ? Float64Array.from(input.dReal) : lr.map(sigmoid);
+  const pF = input.scale === "prob" ? Float64Array.from(input.dFake) : lf.map(sigmoid);
   const oPR = sr?.map(sigmoid), oPF = sf?.map(sigmoid);
-  const binIndex = (p: number) => Math.min(nb - 1, Math.floor(p * nb));
+  // Right-closed bins ((b - 1)/nb, b/nb] as Guo et al. 2017 (and sklearn's calibration_curve);
+  // 0 goes to the first bin. The edges are b/nb, so p = 0.3 lands in (0.2, 0.3].
+  const binIndex = (p: number) => {
+    let b = Math.min(nb - 1, Math.max(0, Math.ceil(p * nb) - 1));
+    if (b > 0 && p <= b / nb) b--;
+    else if (b < nb - 1 && p > (b + 1) / nb) b++;
+    return b;
+  };
   const calib = (ir: ArrayLike<number>, iF: ArrayLike<number>) => {
     const w = new Float64Array(nb), sD = new Float64Array(nb), sY = new Float64Array(nb);
     const sO = new Float64Array(nb), cnt = new Uint32Array(nb);

@@ -9,7 +9,16 @@ import { assertSameDimension, type Samples } from "../samples/samples.ts";
 import { sigmoid } from "./_logistic.ts";
 import type { Discriminator } from "./types.ts";
 
-/** Where both log-densities are `-Infinity` the logit is set to this value (D* = 1/2). */
+/**
+ * Where both log-densities are `-Infinity` the logit is set to this value (D* = 1/2).
+ *
+ * @example
+ * ```ts
+ * import { UNDEFINED_LOGIT } from "./optimal_discriminator.ts";
+ * import assert from "node:assert/strict";
+ * assert.equal(1 / (1 + Math.exp(-UNDEFINED_LOGIT)), 0.5);
+ * ```
+ */
 export const UNDEFINED_LOGIT = 0;
 
 /** D* on a batch, with the count of points where neither density has mass. */

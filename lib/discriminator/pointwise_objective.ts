@@ -38,7 +38,19 @@ function checkWeights(a: number, b: number): void {
  * ```
  */
 export function pointwiseObjective(a: number, b: number, y: number): number;
-/** The objective at each `y` of an array (to plot the curve over y). */
+/**
+ * The objective at each `y` of an array (to plot the curve over y).
+ *
+ * References: Goodfellow et al. 2014, Generative Adversarial Nets (NeurIPS), Prop. 1.
+ *
+ * @example
+ * ```ts
+ * import { pointwiseObjective } from "./pointwise_objective.ts";
+ * import assert from "node:assert/strict";
+ * const v = pointwiseObjective(1, 1, [0.25, 0.5]);
+ * assert.equal(v[1], 2 * Math.log(0.5));
+ * ```
+ */
 export function pointwiseObjective(a: number, b: number, y: ArrayLike<number>): Float64Array;
 export function pointwiseObjective(
   a: number,

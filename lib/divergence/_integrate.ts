@@ -365,8 +365,8 @@ export function combineMeans(
   fields: { level?: number; unit?: EstimateUnit; notes?: readonly string[]; method?: string },
 ): Estimate {
   const level = fields.level ?? 0.95;
-  const ma = safeMeanVariance(a);
-  const mb = b ? safeMeanVariance(b) : { mean: 0, variance: 0 };
+  const ma = meanVariance(a);
+  const mb = b ? meanVariance(b) : { mean: 0, variance: 0 };
   const value = ca * ma.mean + (b ? cb * mb.mean : 0);
   const n = a.length + (b ? b.length : 0);
   const method = fields.method ?? "monte-carlo";
@@ -388,18 +388,6 @@ export function combineMeans(
     notes: fields.notes ?? [],
     ...unit,
   });
-}
-
-/** Mean and variance; with an infinite term the plain sum decides the mean (Welford gives NaN). */
-export function safeMeanVariance(x: Float64Array): { mean: number; variance: number } {
-  for (let i = 0; i < x.length; i++) {
-    if (!Number.isFinite(x[i])) {
-      let s = 0;
-      for (let j = 0; j < x.length; j++) s += x[j];
-      return { mean: s / x.length, variance: NaN };
-    }
-  }
-  return meanVariance(x);
 }
 
 /** An Estimate from a grid value and its refinement error. */

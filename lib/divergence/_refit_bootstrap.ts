@@ -9,9 +9,14 @@
 import { fitKde } from "../density/kde.ts";
 import type { Density } from "../density/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
-import { type BootstrapEstimate, quantileSorted } from "../estimate/bootstrap.ts";
+import { type BootstrapEstimate, percentileInterval } from "../estimate/bootstrap.ts";
 import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
-import { type Estimate, type EstimateUnit, makeEstimate } from "../estimate/estimate.ts";
+import {
+  type Estimate,
+  type EstimateUnit,
+  makeEstimate,
+  meanVariance,
+} from "../estimate/estimate.ts";
 import { type RandomSource, type Rng, toRng } from "../random/rng.ts";
 import { type Samples, samples, type SamplesInput } from "../samples/samples.ts";
 import { takeRows } from "../samples/transform.ts";
@@ -126,7 +131,7 @@ export function integrationText(o: { method?: string; gridSize?: number; n?: num
 
 /** Fit both sides, checking that the fitter returns densities of the right dimension. */
 export function fitBoth(setup: RefitSetup, real: Samples, fake: Samples): [Density, Density] {
-  const p = setup.fit(real), q = setup.fit(fake);
+  const p = fitSide(setup, real, "real"), q = fitSide(setup, fake, "fake");
   for (const [dens, name] of [[p, "real"], [q, "fake"]] as const) {
     if (
       dens === null || typeof dens !== "object" || typeof dens.logPdf !== "function" ||
@@ -142,6 +147,27 @@ export function fitBoth(setup: RefitSetup, real: Samples, fake: Samples): [Densi
     }
   }
   return [p, q];
+}
+
+/**
+ * `setup.fit(x)`, with a SaddleError from the fitter re-raised as one that names the side
+ * (parameter "real" or "fake") and keeps the fitter's row, column and code.
+ */
+function fitSide(setup: RefitSetup, x: Samples, side: "real" | "fake"): Density {
+  try {
+    return setup.fit(x);
+  } catch (e) {
+    if (!(e instanceof SaddleError)) throw e;
+    // The message starts with the formatted location of the fitter's error: drop it, the
+    // new error formats its own (with the side as the parameter).
+    const where = new SaddleError(e.code, "", e.location).message;
+    const text = where && e.message.startsWith(where) ? e.message.slice(where.length) : e.message;
+    const { parameter: _parameter, ...rest } = e.location;
+    throw new SaddleError(e.code, `fitting the ${side} samples: ${text}`, {
+      ...rest,
+      parameter: side,
+    });
+  }
 }
 
 /** The replicate values of each term, in draw order (NaN where a replicate failed). */
@@ -234,14 +260,9 @@ export function refitEstimate(
   const notes: string[] = [...(fields.notes ?? [])];
   let se = NaN, ci: [number, number] = [NaN, NaN];
   if (kept >= 2) {
-    let mean = 0;
-    for (let i = 0; i < kept; i++) mean += (reps[i] - mean) / (i + 1);
-    let ss = 0;
-    for (let i = 0; i < kept; i++) ss += (reps[i] - mean) * (reps[i] - mean);
-    se = Math.sqrt(ss / (kept - 1));
-    const sorted = reps.slice().sort();
-    const a = (1 - setup.level) / 2;
-    ci = [quantileSorted(sorted, a), quantileSorted(sorted, 1 - a)];
+    const { mean, variance } = meanVariance(reps);
+    se = Math.sqrt(variance);
+    ci = percentileInterval(reps, setup.level);
     if (value < ci[0] || value > ci[1]) {
       notes.push(
         "the plug-in value lies outside its own percentile interval: the replicates are " +

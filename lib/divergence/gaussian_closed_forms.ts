@@ -8,6 +8,7 @@
 import { SaddleError } from "../errors/saddle_error.ts";
 import { cholesky, choleskySolve, logDetCholesky, solveLower } from "../linalg/cholesky.ts";
 import { sqrtSymmetric } from "../linalg/eigen.ts";
+import { toMatrix } from "../density/_common.ts";
 import { logBase } from "./_units.ts";
 
 /** Mean and covariance of a Gaussian; d is inferred from `mean.length`. */
@@ -22,10 +23,16 @@ interface Checked {
   d: number;
   mean: Float64Array;
   cov: Float64Array;
+  /** Cholesky factor; empty when only positive semi-definiteness was asked for. */
   L: Float64Array;
 }
 
-function check(g: GaussianMoments, name: string): Checked {
+/**
+ * Validate one Gaussian. `definite` (default) factors the covariance (positive definite
+ * needed); without it the covariance only has to be symmetric, and the caller checks that it
+ * is positive semi-definite (the Fréchet distance is defined for singular covariances).
+ */
+function check(g: GaussianMoments, name: string, definite = true): Checked {
   const d = g.mean.length;
   if (d === 0) throw new SaddleError("empty", `${name}.mean is empty`, { parameter: name });
   const cov = typeof g.cov === "number" ? new Float64Array([g.cov]) : Float64Array.from(g.cov);
@@ -44,11 +51,18 @@ function check(g: GaussianMoments, name: string): Checked {
       });
     }
   }
-  return { d, mean, cov, L: cholesky(cov, d, { name: `${name}.cov` }) };
+  // Symmetric, with the same check and message as the density constructors.
+  toMatrix(cov, d, `${name}.cov`);
+  return {
+    d,
+    mean,
+    cov,
+    L: definite ? cholesky(cov, d, { name: `${name}.cov` }) : new Float64Array(0),
+  };
 }
 
-function pair(a: GaussianMoments, b: GaussianMoments): [Checked, Checked] {
-  const ca = check(a, "a"), cb = check(b, "b");
+function pair(a: GaussianMoments, b: GaussianMoments, definite = true): [Checked, Checked] {
+  const ca = check(a, "a", definite), cb = check(b, "b", definite);
   if (ca.d !== cb.d) {
     throw new SaddleError(
       "dimension-mismatch",
@@ -158,6 +172,8 @@ export function gaussianHellinger(a: GaussianMoments, b: GaussianMoments): numbe
  * Squared Fréchet (2-Wasserstein) distance between Gaussians,
  * `||μ_a - μ_b||² + tr(Σ_a + Σ_b - 2 (Σ_a^{1/2} Σ_b Σ_a^{1/2})^{1/2})`, through symmetric
  * square roots (no complex parts from a non-symmetric sqrtm). Take `Math.sqrt` for W2.
+ * Covariances need only be positive semi-definite: singular ones (features with fewer
+ * samples than dimensions, a constant feature) are fine; a clearly negative eigenvalue throws.
  *
  * References: Dowson & Landau 1982, The Fréchet distance between multivariate normal
  * distributions (J. Multivariate Anal.); Heusel et al. 2017 (NeurIPS).
@@ -172,9 +188,16 @@ export function gaussianHellinger(a: GaussianMoments, b: GaussianMoments): numbe
  * ```
  */
 export function gaussianFrechet(a: GaussianMoments, b: GaussianMoments): number {
-  const [A, B] = pair(a, b);
+  const [A, B] = pair(a, b, false);
   const d = A.d;
-  const ra = sqrtSymmetric(A.cov, d);
+  const ra = psdRoot(A.cov, d, "a.cov");
+  // b.cov must be PSD too: a Cholesky factorisation proves it cheaply in the usual definite
+  // case; only a singular b.cov pays for an eigendecomposition.
+  try {
+    cholesky(B.cov, d, { name: "b.cov" });
+  } catch {
+    psdRoot(B.cov, d, "b.cov");
+  }
   // M = Σ_a^{1/2} Σ_b Σ_a^{1/2}
   const tmp = new Float64Array(d * d), m = new Float64Array(d * d);
   for (let i = 0; i < d; i++) {
@@ -191,13 +214,28 @@ export function gaussianFrechet(a: GaussianMoments, b: GaussianMoments): number 
       m[i * d + j] = s;
     }
   }
-  const root = sqrtSymmetric(m, d);
+  const root = psdRoot(m, d, "a.cov^½ b.cov a.cov^½");
   let tr = 0, dist = 0;
   for (let i = 0; i < d; i++) {
     tr += A.cov[i * d + i] + B.cov[i * d + i] - 2 * root[i * d + i];
     dist += (A.mean[i] - B.mean[i]) ** 2;
   }
   return Math.max(0, dist + tr);
+}
+
+/** The PSD square root, its error naming the covariance. */
+function psdRoot(m: Float64Array, d: number, name: string): Float64Array {
+  try {
+    return sqrtSymmetric(m, d);
+  } catch (e) {
+    if (!(e instanceof SaddleError)) throw e;
+    throw new SaddleError(
+      e.code,
+      `${name} is not positive semi-definite (it has a clearly negative eigenvalue), so it ` +
+        "is not a covariance; check how it was computed",
+      { parameter: name },
+    );
+  }
 }
 
 /**

@@ -10,3 +10,9 @@ export * from "./gaussian_closed_forms.ts";
 export * from "./discrete.ts";
 export * from "./integration_options.ts";
 export * from "./divergence_from_samples.ts";
+// Types of other folders that this folder's API mentions, re-exported so the module documents alone.
+export type { RandomSource, Rng } from "../random/rng.ts";
+export type { SampleRecord, Samples, SamplesInput } from "../samples/samples.ts";
+export type { Density, DensityDescription } from "../density/types.ts";
+export type { BootstrapEstimate } from "../estimate/bootstrap.ts";
+export type { Estimate, EstimateUnit } from "../estimate/estimate.ts";

@@ -87,11 +87,7 @@ export function bootstrap(
   const replicates = reps.slice(0, kept);
   const notes: string[] = [`${B} bootstrap replicates, seed ${r.seed}`];
   if (kept < B) notes.push(`${B - kept} replicates gave a non-finite statistic and were dropped`);
-  const sorted = replicates.slice().sort();
-  const alpha = (1 - level) / 2;
-  const ci: [number, number] = kept > 1
-    ? [quantileSorted(sorted, alpha), quantileSorted(sorted, 1 - alpha)]
-    : [NaN, NaN];
+  const ci: [number, number] = kept > 1 ? percentileInterval(replicates, level) : [NaN, NaN];
   const est = makeEstimate({
     value,
     se: kept > 1 ? Math.sqrt(meanVariance(replicates).variance) : NaN,
@@ -125,4 +121,23 @@ export function quantileSorted(sorted: ArrayLike<number>, p: number): number {
   const lo = Math.floor(h);
   const hi = Math.min(lo + 1, n - 1);
   return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+}
+
+/**
+ * The percentile interval `[q_(1-level)/2, q_(1+level)/2]` of bootstrap replicates, with
+ * {@linkcode quantileSorted}'s interpolation (the input is not modified).
+ *
+ * References: Efron & Tibshirani 1993, An Introduction to the Bootstrap, ch. 13.
+ *
+ * @example
+ * ```ts
+ * import { percentileInterval } from "./bootstrap.ts";
+ * import assert from "node:assert/strict";
+ * assert.deepEqual(percentileInterval([4, 0, 3, 1, 2], 0.5), [1, 3]);
+ * ```
+ */
+export function percentileInterval(replicates: ArrayLike<number>, level: number): [number, number] {
+  const sorted = Float64Array.from(replicates).sort();
+  const alpha = (1 - level) / 2;
+  return [quantileSorted(sorted, alpha), quantileSorted(sorted, 1 - alpha)];
 }

@@ -160,12 +160,22 @@ export function meanEstimate(
 ): Estimate {
   const n = terms.length;
   if (n === 0) throw new SaddleError("empty", "no terms to average", { parameter: "terms" });
+  for (let i = 0; i < n; i++) {
+    if (Number.isNaN(terms[i])) {
+      throw new SaddleError(
+        "non-finite",
+        `term ${i} is NaN; drop it or fix what produced it before averaging`,
+        { parameter: "terms", row: i },
+      );
+    }
+  }
   const { mean, variance } = meanVariance(terms);
   const level = options.level ?? 0.95;
   const se = n > 1 ? Math.sqrt(variance / n) : NaN;
   const z = normalCritical(level);
   const notes = [...(options.notes ?? [])];
   if (n === 1) notes.push("one term only: no standard error");
+  else if (!Number.isFinite(mean)) notes.push("a term is infinite: no standard error");
   return makeEstimate({
     value: mean,
     se,
@@ -179,7 +189,9 @@ export function meanEstimate(
 }
 
 /**
- * Mean and unbiased variance in one pass (Welford), stable for large offsets.
+ * Mean and unbiased variance in one pass (Welford), stable for large offsets. A non-finite
+ * term (Welford would give NaN) makes the plain sum decide the mean (±Infinity, or NaN for
+ * +Infinity with -Infinity) and the variance NaN.
  *
  * @example
  * ```ts
@@ -191,6 +203,11 @@ export function meanEstimate(
 export function meanVariance(x: ArrayLike<number>): { mean: number; variance: number } {
   let mean = 0, m2 = 0;
   for (let i = 0; i < x.length; i++) {
+    if (!Number.isFinite(x[i])) {
+      let sum = 0;
+      for (let j = 0; j < x.length; j++) sum += x[j];
+      return { mean: sum / x.length, variance: NaN };
+    }
     const delta = x[i] - mean;
     mean += delta / (i + 1);
     m2 += delta * (x[i] - mean);

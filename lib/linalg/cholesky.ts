@@ -40,11 +40,21 @@ export function cholesky(
       },
     );
   }
+  for (let i = 0; i < d * d; i++) {
+    if (!Number.isFinite(a[i])) {
+      const name = options.name ?? "matrix";
+      throw new SaddleError(
+        "singular",
+        `${name} has a non-finite entry (row ${Math.floor(i / d)}, column ${i % d} is ${a[i]}); ` +
+          "check the data or parameters it was computed from",
+        { parameter: name },
+      );
+    }
+  }
   const L = new Float64Array(d * d);
   for (let j = 0; j < d; j++) {
     let s = a[j * d + j];
     for (let k = 0; k < j; k++) s -= L[j * d + k] * L[j * d + k];
-    // s <= 0 also catches NaN input, since NaN > 0 is false.
     if (!(s > 0)) {
       throw new SaddleError(
         "singular",

@@ -36,6 +36,14 @@ export class Rng {
    * @param seed Any number or string; equal seeds give equal streams.
    */
   constructor(seed: number | string) {
+    if (typeof seed !== "number" && typeof seed !== "string") {
+      // String() of any object is "[object Object]": every object would share one stream.
+      throw new SaddleError(
+        "invalid-argument",
+        `seed must be a number, a string or an Rng, got ${seed === null ? "null" : typeof seed}`,
+        { parameter: "seed" },
+      );
+    }
     if (typeof seed === "number" && !Number.isFinite(seed)) {
       throw new SaddleError("invalid-argument", `seed must be finite, got ${seed}`, {
         parameter: "seed",
@@ -137,6 +145,11 @@ export class Rng {
 
   /** A uniformly random permutation of 0..n-1 (Fisher–Yates). */
   permutation(n: number): Uint32Array {
+    if (!Number.isInteger(n) || n < 0) {
+      throw new SaddleError("invalid-argument", `n must be an integer >= 0, got ${n}`, {
+        parameter: "n",
+      });
+    }
     const p = new Uint32Array(n);
     for (let i = 0; i < n; i++) p[i] = i;
     for (let i = n - 1; i > 0; i--) {
@@ -154,6 +167,13 @@ export class Rng {
       throw new SaddleError("too-few-samples", `cannot resample from n = ${n} points`, {
         parameter: "n",
       });
+    }
+    if (out.length !== size) {
+      throw new SaddleError(
+        "dimension-mismatch",
+        `out has length ${out.length} but size is ${size}; pass a buffer of length size`,
+        { parameter: "size" },
+      );
     }
     for (let i = 0; i < out.length; i++) out[i] = Math.floor(this.#next() * n);
     return out;

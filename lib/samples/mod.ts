@@ -12,3 +12,5 @@ export * from "./npy.ts";
 export * from "./npz.ts";
 export * from "./read.ts";
 export type { ColumnSelection } from "./_columns.ts";
+// Types of other folders that this folder's API mentions, re-exported so the module documents alone.
+export type { RandomSource, Rng } from "../random/rng.ts";

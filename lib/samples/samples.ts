@@ -83,6 +83,14 @@ export function samples(input: SamplesInput, options: SamplesOptions = {}): Samp
   if (ArrayBuffer.isView(input)) {
     return fromFlat(input, checkDim(options.d ?? 1), options.columns, src);
   }
+  if (!Array.isArray(input)) {
+    throw new SaddleError(
+      "invalid-argument",
+      `cannot read samples from ${describeValue(input)}; ` +
+        "give numbers, rows of numbers, a typed array or records",
+      { ...at(src), parameter: "input" },
+    );
+  }
   const arr = input as readonly unknown[];
   if (arr.length === 0) {
     throw new SaddleError("empty", "no rows: give at least one point", at(src));
@@ -369,6 +377,7 @@ function at(source: string | undefined): { file?: string } {
 
 function describeValue(v: unknown): string {
   if (v === null) return "null";
+  if (v === undefined) return "undefined";
   if (typeof v === "string") return `the string ${JSON.stringify(v.slice(0, 40))}`;
   if (Array.isArray(v)) return "an array";
   return typeof v === "object" ? "an object" : `${typeof v} ${String(v)}`;

@@ -4,9 +4,13 @@
  *
  * @module
  */
-import { safeMeanVariance } from "../divergence/_integrate.ts";
 import { bootstrap } from "../estimate/bootstrap.ts";
-import { type Estimate, type EstimateUnit, makeEstimate } from "../estimate/estimate.ts";
+import {
+  type Estimate,
+  type EstimateUnit,
+  makeEstimate,
+  meanVariance,
+} from "../estimate/estimate.ts";
 import type { RandomSource } from "../random/rng.ts";
 
 /** Options of {@linkcode twoSampleSum}. */
@@ -39,7 +43,7 @@ export function twoSampleSum(
   const level = options.level ?? 0.95;
   const notes = [...(options.notes ?? [])];
   const unit = options.unit ? { unit: options.unit } : {};
-  const ma = safeMeanVariance(a), mb = safeMeanVariance(b);
+  const ma = meanVariance(a), mb = meanVariance(b);
   const value = wa * ma.mean + wb * mb.mean;
   const n = a.length + b.length;
   if (!Number.isFinite(value)) {

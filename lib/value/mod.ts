@@ -26,3 +26,12 @@ export * from "./value_function.ts";
 export * from "./generator_objectives.ts";
 export * from "./optimum_decomposition.ts";
 export * from "./sample_decomposition.ts";
+// Types of other folders that this folder's API mentions, re-exported so the module documents alone.
+export type { RandomSource, Rng } from "../random/rng.ts";
+export type { SampleRecord, Samples, SamplesInput } from "../samples/samples.ts";
+export type { Density, DensityDescription } from "../density/types.ts";
+export type { BootstrapEstimate } from "../estimate/bootstrap.ts";
+export type { Estimate, EstimateUnit } from "../estimate/estimate.ts";
+export type { Discriminator } from "../discriminator/types.ts";
+export type { IntegrationOptions } from "../divergence/integration_options.ts";
+export type { RefitOptions } from "../divergence/divergence_from_samples.ts";

@@ -20,6 +20,14 @@ export type OutputScale = "prob" | "logit";
  * Probabilities of exactly 0 or 1 are moved to `OUTPUT_EPSILON` and `1 - OUTPUT_EPSILON`
  * before taking logs (1e-7, the usual float32 guard of deep-learning frameworks; common
  * practice, no source). Logits need no clipping.
+ *
+ * @example
+ * ```ts
+ * import { OUTPUT_EPSILON, outputsToLogits } from "./value_function.ts";
+ * import assert from "node:assert/strict";
+ * const { logit } = outputsToLogits([1], "prob", "dReal");
+ * assert.equal(logit[0], Math.log1p(-OUTPUT_EPSILON) - Math.log(OUTPUT_EPSILON));
+ * ```
  */
 export const OUTPUT_EPSILON = 1e-7;
 

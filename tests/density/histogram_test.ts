@@ -78,3 +78,20 @@ Deno.test("histogram: bad input rejected; outside the grid is -Infinity", () => 
   assert.equal(h.logPdf(samples([-1]))[0], -Infinity);
   assert.ok(Number.isFinite(h.logPdf(samples([2]))[0]), "upper edge belongs to the last bin");
 });
+
+Deno.test({
+  name:
+    "histogram default bins: the Freedman–Diaconis count numpy.histogram_bin_edges(x, 'fd') picks",
+  ignore: ignoreWithoutPython(["numpy"]),
+  async fn() {
+    // Freedman & Diaconis 1981: width 2 IQR n^(-1/3), the IQR from interpolated quartiles
+    // (numpy.percentile's default, Hyndman & Fan type 7); small n is where floor-index
+    // quartiles pick another count.
+    const r = new Rng(11);
+    const cases = [7, 10, 12, 20, 33, 50, 301].map((n) =>
+      Array.from({ length: n }, () => Math.round(1000 * r.normal()) / 1000)
+    );
+    const ref = await runReference<{ bins: number[] }>("density_fd_bins.py", { cases });
+    cases.forEach((x, i) => assert.equal(fitHistogram(x).bins[0], ref.bins[i], `case ${i}`));
+  },
+});

@@ -225,7 +225,8 @@ Deno.test("kde: zero weights drop points; weights equal to counts match duplicat
 });
 
 Deno.test({
-  name: "kde: diffusion bandwidth vs an independent numpy/scipy implementation of Botev et al. 2010",
+  name:
+    "kde: diffusion bandwidth vs an independent numpy/scipy implementation of Botev et al. 2010",
   ignore: ignoreWithoutPython(["numpy", "scipy"]),
   async fn() {
     const r = new Rng(21);
@@ -279,4 +280,23 @@ Deno.test("kde: diagonal bandwidth equals the product of 1-D kernels; describe()
   const html = displayBundle(desc)!["text/html"];
   assert.match(html, /diffusion/);
   assert.match(html, /tStar/);
+});
+
+Deno.test("kde: a query so far out that (x - z)² overflows gives -Infinity, never NaN, in every evaluator", () => {
+  // log N(x; z, h²) = -(x - z)²/(2h²) - ...: at |x| = 1e200 the square overflows and the
+  // log-density is -Infinity (below every double), as gaussian().logPdf reports; NaN would
+  // poison every sum it enters. Common practice, no source.
+  const one = samples([0, 1, 2, 3, 0.5, 1.5, 2.5, 3.5, 0.2, 0.7]);
+  const two = samples([[0, 1], [1, 0], [2, 2], [3, 1], [0.5, 0.5], [1, 1]]);
+  const far1 = samples([1e200, -1e200, 1e155, 1.5]);
+  const far2 = samples([[1e200, 0], [0, -1e160], [1, 1]]);
+  for (const method of ["sorted", "tree", "blocked"] as const) {
+    const v = fitKde(one, { method }).logPdf(far1);
+    assert.deepEqual(Array.from(v.subarray(0, 3)), [-Infinity, -Infinity, -Infinity], method);
+    assert.ok(Number.isFinite(v[3]), method);
+    if (method === "sorted") continue;
+    const w = fitKde(two, { method }).logPdf(far2);
+    assert.deepEqual(Array.from(w.subarray(0, 2)), [-Infinity, -Infinity], method);
+    assert.ok(Number.isFinite(w[2]), method);
+  }
 });

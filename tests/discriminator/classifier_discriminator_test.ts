@@ -112,3 +112,21 @@ Deno.test("classifierDiscriminator: bad input", () => {
     /features must be/,
   );
 });
+
+Deno.test("classifierDiscriminator: `regularization` is the project's name for the ridge (`l2` kept)", () => {
+  // DEVELOPERS.md: estimators share the parameter names seed, level, k, bandwidth, base,
+  // regularization. The same penalty under either name gives the same bits.
+  const r = gaussian(0, 1).sample(60, 1), f = gaussian(1, 1).sample(60, 2);
+  const x = samples([-1, 0, 2]);
+  const a = classifierDiscriminator(r, f, { regularization: 0.05, seed: 3 }).logit(x);
+  const b = classifierDiscriminator(r, f, { l2: 0.05, seed: 3 }).logit(x);
+  assert.deepEqual(Array.from(a), Array.from(b));
+  assert.throws(
+    () => classifierDiscriminator(r, f, { regularization: -1 }),
+    /regularization must be >= 0/,
+  );
+  assert.throws(
+    () => classifierDiscriminator(r, f, { regularization: 0.1, l2: 0.2 }),
+    /regularization and l2/,
+  );
+});

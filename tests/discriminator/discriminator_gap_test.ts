@@ -6,13 +6,15 @@
  */
 import assert from "node:assert/strict";
 import { assertClose } from "../_assert.ts";
-import { gaussian } from "../../lib/density/mod.ts";
+import { ignoreWithoutPython, runReference } from "../_reference.ts";
+import { gaussian, uniformBox } from "../../lib/density/mod.ts";
 import {
   classifierDiscriminator,
   discriminatorGap,
   optimalDiscriminator,
 } from "../../lib/discriminator/mod.ts";
 import { displayBundle } from "../../lib/estimate/mod.ts";
+import { samples } from "../../lib/samples/mod.ts";
 
 const pData = gaussian(0, 1), pModel = gaussian(1, 1);
 const real = pData.sample(4000, 1), fake = pModel.sample(4000, 2);
@@ -63,7 +65,7 @@ Deno.test("discriminatorGap: a shifted or overconfident D has a positive gap wit
 });
 
 Deno.test("discriminatorGap: ECE and Brier by hand (Guo et al. 2017; Brier 1950)", () => {
-  // Two bins: [0, 0.5) and [0.5, 1). Real outputs 0.8, 0.6, 0.2; generated 0.3, 0.7.
+  // Two bins: [0, 0.5] and (0.5, 1]. Real outputs 0.8, 0.6, 0.2; generated 0.3, 0.7.
   // Equal priors: each real point weighs 1/6, each generated 1/4.
   const g = discriminatorGap({ dReal: [0.8, 0.6, 0.2], dFake: [0.3, 0.7], scale: "prob", bins: 2 });
   // Bin 0: real 0.2 (1/6), fake 0.3 (1/4): weight 5/12, conf (0.2/6 + 0.3/4)/(5/12) = 0.26,
@@ -125,4 +127,65 @@ Deno.test("discriminatorGap: bad input", () => {
     () => discriminatorGap({ dReal: [0], dFake: [0], scale: "logit", pData, pModel, real, fake }),
     /4000 points but 1 outputs/,
   );
+});
+
+Deno.test("discriminatorGap: D = D* with saturated logits (disjoint supports) has gap 0, not NaN", () => {
+  // Uniform data on [0, 1] and model on [2, 3]: D* is 1 on the data and 0 on the model
+  // (Goodfellow et al. 2014, Prop. 1), logits ±Infinity. A D equal to D* has gap 0 by
+  // definition; a real point where D and D* both say 0 (2.5, fed on purpose) must not turn
+  // the per-point difference (-Infinity) - (-Infinity) into NaN.
+  const pD = uniformBox([0], [1]), pG = uniformBox([2], [3]);
+  const realX = samples([0.2, 0.7]), fakeX = samples([2.2, 2.7]);
+  const g = discriminatorGap({
+    dReal: [Infinity, Infinity],
+    dFake: [-Infinity, -Infinity],
+    scale: "logit",
+    real: realX,
+    fake: fakeX,
+    pData: pD,
+    pModel: pG,
+    replicates: 20,
+  });
+  assert.equal(g.gap!.value, 0);
+  assert.equal(g.value.value, 0);
+  // A "real" point inside the model support: D and D* both give logit -Infinity there.
+  const h = discriminatorGap({
+    dReal: [Infinity, -Infinity],
+    dFake: [-Infinity, -Infinity],
+    scale: "logit",
+    real: samples([0.2, 2.5]),
+    fake: fakeX,
+    pData: pD,
+    pModel: pG,
+    replicates: 20,
+  });
+  assert.equal(h.gap!.value, 0);
+  assert.equal(h.value.value, -Infinity);
+});
+
+Deno.test({
+  name:
+    "discriminatorGap: reliability bins are right-closed ((m-1)/M, m/M], as Guo et al. 2017 and sklearn's calibration_curve",
+  ignore: ignoreWithoutPython(["sklearn"]),
+  async fn() {
+    // Outputs rounded to one decimal sit on the bin edges: an output of exactly 0.5 belongs
+    // to (0.4, 0.5], not to [0.5, 0.6). Equal numbers of real and generated points make the
+    // equal-prior weights uniform, so the bins are sklearn's unweighted ones.
+    const dReal = [0.5, 0.6, 0.7, 0.8, 0.9, 1, 0.5, 0.3, 0.2, 0.9];
+    const dFake = [0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.5, 0.6, 0.1, 0.7];
+    const g = discriminatorGap({ dReal, dFake, scale: "prob", bins: 10, replicates: 20 });
+    const ref = await runReference<{ prob_true: number[]; prob_pred: number[] }>(
+      "discriminator_calibration.py",
+      { y: [...dReal.map(() => 1), ...dFake.map(() => 0)], p: [...dReal, ...dFake], bins: 10 },
+    );
+    const full = g.bins.filter((b) => b.count > 0);
+    assert.equal(full.length, ref.prob_true.length);
+    full.forEach((b, i) => {
+      assertClose(b.meanD, ref.prob_pred[i], { rel: 1e-12, abs: 1e-15 }, `meanD ${i}`);
+      assertClose(b.fractionReal, ref.prob_true[i], { rel: 1e-12, abs: 1e-15 }, `fraction ${i}`);
+    });
+    // The four outputs of 0.5 are in bin 4, (0.4, 0.5]; the 0.4 is in bin 3.
+    assert.equal(g.bins[4].count, 4);
+    assert.equal(g.bins[3].count, 1);
+  },
 });

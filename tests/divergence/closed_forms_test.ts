@@ -129,3 +129,32 @@ Deno.test("jsdDiscrete: within [0, ln 2] (Lin 1991); symmetric; bad input", () =
   assert.throws(() => klDiscrete([0, 0], [1, 1]), /sums to 0/);
   assert.throws(() => klDiscrete([], []), SaddleError);
 });
+
+Deno.test("gaussianFrechet accepts singular (PSD) covariances, as FID with n < d needs", () => {
+  // Dowson & Landau 1982: the formula holds for positive semi-definite covariances. By hand
+  // for diagonal covariances: ||Δμ||² + Σ_i (√a_i - √b_i)²; here 1 + (1 - 2)² + 0 = 2.
+  const a = { mean: [0, 0], cov: [1, 0, 0, 0] }, b = { mean: [1, 0], cov: [4, 0, 0, 0] };
+  assertClose(gaussianFrechet(a, b), 2, { rel: 1e-12 });
+  assert.equal(gaussianFrechet(a, a), 0);
+  // Rank one, Σ_a = vvᵀ with v = (1, 1, 1), against Σ_b = I: (Σ_a^½ Σ_b Σ_a^½)^½ = Σ_a^½ =
+  // vvᵀ/|v|, of trace |v| = √3, so the distance is tr Σ_a + tr Σ_b - 2√3 = 6 - 2√3.
+  const rank1 = { mean: [0, 0, 0], cov: new Array(9).fill(1) };
+  const eye = { mean: [0, 0, 0], cov: [1, 0, 0, 0, 1, 0, 0, 0, 1] };
+  assertClose(gaussianFrechet(rank1, eye), 6 - 2 * Math.sqrt(3), { rel: 1e-10 });
+  // Not PSD, or not symmetric: a SaddleError naming the covariance.
+  assert.throws(() => gaussianFrechet({ mean: [0], cov: -1 }, { mean: [0], cov: 1 }), /a\.cov/);
+  assert.throws(
+    () =>
+      gaussianFrechet({ mean: [0, 0], cov: [1, 0.5, 0, 1] }, { mean: [0, 0], cov: [1, 0, 0, 1] }),
+    /a\.cov.*symmetric/,
+  );
+});
+
+Deno.test("gaussianFrechet: a b.cov with a negative eigenvalue is refused even where a.cov is singular", () => {
+  // a.cov's null space would hide b's negative direction from Σ_a^½ Σ_b Σ_a^½.
+  assert.throws(
+    () =>
+      gaussianFrechet({ mean: [0, 0], cov: [1, 0, 0, 0] }, { mean: [0, 0], cov: [1, 0, 0, -1] }),
+    /b\.cov is not positive semi-definite/,
+  );
+});

@@ -188,3 +188,18 @@ Deno.test("divergenceFromSamples: bad input names the parameter", () => {
     "n",
   );
 });
+
+Deno.test("divergenceFromSamples: a fit that fails on one side says which side", () => {
+  // Constant fake data: the default KDE cannot scale a bandwidth from a zero variance. The
+  // error must say it was the fake side and keep the column of the fitter's error.
+  const one = P.sample(50, 1);
+  const constant = samples(new Array(20).fill(1));
+  assert.throws(() => divergenceFromSamples(one, constant, "kl"), (e: unknown) => {
+    assert.ok(e instanceof SaddleError, String(e));
+    assert.equal(e.location.parameter, "fake");
+    assert.equal(e.location.column, 0);
+    assert.match(e.message, /fitting the fake samples: column 0 has zero variance/);
+    assert.doesNotMatch(e.message, /parameter "samples"/);
+    return true;
+  });
+});

@@ -130,3 +130,22 @@ Deno.test("tables escape HTML and align text", () => {
     "term     value\nJSD      0.25\nvalue V  -1.386",
   );
 });
+
+Deno.test("meanVariance / meanEstimate: an infinite term makes the mean infinite, not NaN", () => {
+  // The mean of a sample with one +Infinity (and otherwise finite terms) is +Infinity;
+  // +Infinity and -Infinity together have no mean (NaN). Common practice, no source.
+  assert.equal(meanVariance([1, Infinity, 2]).mean, Infinity);
+  assert.ok(Number.isNaN(meanVariance([1, Infinity, 2]).variance));
+  assert.equal(meanEstimate([1, -Infinity, 2]).value, -Infinity);
+  assert.ok(Number.isNaN(meanEstimate([1, -Infinity, Infinity]).value));
+});
+
+Deno.test("meanEstimate: a NaN term is refused with its row, not averaged into a NaN", () => {
+  assert.throws(() => meanEstimate([1, 2, NaN, 4]), (e: unknown) => {
+    assert.ok(e instanceof SaddleError, String(e));
+    assert.equal(e.code, "non-finite");
+    assert.equal(e.location.row, 2);
+    assert.equal(e.location.parameter, "terms");
+    return true;
+  });
+});

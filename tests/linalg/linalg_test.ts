@@ -95,3 +95,13 @@ Deno.test("linalg: singular and malformed inputs throw SaddleErrors", () => {
   const s = sqrtSymmetric([1, 1, 1, 1], 2);
   assertAllClose(s, [Math.SQRT1_2, Math.SQRT1_2, Math.SQRT1_2, Math.SQRT1_2], { rel: 1e-12 });
 });
+
+Deno.test("cholesky: a NaN entry is reported as non-finite, not as a collinear column", () => {
+  // Same code as before ("singular": the factorisation fails), but the message must point
+  // at the NaN rather than suggest a ridge.
+  assert.throws(() => cholesky([1, 0, 0, NaN], 2, { name: "cov" }), /cov has a non-finite entry/);
+  assert.throws(
+    () => cholesky([1, Infinity, Infinity, 1], 2),
+    /non-finite entry \(row 0, column 1/,
+  );
+});

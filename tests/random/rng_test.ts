@@ -217,3 +217,19 @@ Deno.test("fork: reproducible, independent of the parent's position, uncorrelate
     assertWithinSe(s / n, 0, 1 / Math.sqrt(n), 5, `corr ${i},${j}`);
   }
 });
+
+Deno.test("bad sizes and seeds give SaddleErrors naming the parameter, not RangeError or a shared seed", () => {
+  const named = (f: () => unknown, parameter: string) =>
+    assert.throws(f, (e: unknown) => {
+      assert.ok(e instanceof SaddleError, String(e));
+      assert.equal(e.location.parameter, parameter);
+      return true;
+    });
+  named(() => rng(1).permutation(-1), "n");
+  named(() => rng(1).permutation(2.5), "n");
+  assert.equal(rng(1).permutation(0).length, 0);
+  // Every object stringifies to "[object Object]": two different objects would share a seed.
+  named(() => rng({} as unknown as number), "seed");
+  named(() => toRng(null as unknown as number), "seed");
+  named(() => rng(1).bootstrapIndices(3, 5, new Uint32Array(2)), "size");
+});

@@ -143,3 +143,15 @@ Deno.test("validation reports the first injected NaN/±Infinity at its row and c
     RUNS,
   );
 });
+
+Deno.test("samples(): null, undefined and non-array inputs give a SaddleError naming the input", () => {
+  for (const bad of [null, undefined, 5, "1,2", {}]) {
+    assert.throws(() => samples(bad as unknown as number[]), (e: unknown) => {
+      assert.ok(e instanceof SaddleError, `${String(bad)}: ${e}`);
+      assert.equal(e.location.parameter, "input");
+      assert.match(e.message, /give numbers, rows of numbers, a typed array or records/);
+      assert.doesNotMatch(e.message, /undefined undefined/);
+      return true;
+    });
+  }
+});

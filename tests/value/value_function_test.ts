@@ -121,3 +121,15 @@ Deno.test("valueFunction: points outside both supports under D* are counted in t
   // ln D*(0.5) = ln(1 / (1 + 1/2)), ln D*(5) = ln ½ (set to 1/2), ln(1 - D*(1.5)) = 0.
   assertClose(v.value, (Math.log(2 / 3) + Math.log(0.5)) / 2, { rel: 1e-14 });
 });
+
+Deno.test("generatorObjectives: a logit of ±Infinity (kept, not clipped) gives an infinite loss, not NaN", () => {
+  // Goodfellow et al. 2014, eq. 1 and sec. 3: with D(G(z)) = 1 (logit +Infinity) the minimax
+  // term ln(1 - D) is -Infinity; with D(G(z)) = 0 (logit -Infinity) the non-saturating loss
+  // -ln D is +Infinity. The mean of terms containing one infinity is that infinity.
+  const up = generatorObjectives([Infinity, 0, 1], { scale: "logit" });
+  assert.equal(up.minimax.value, -Infinity);
+  assert.ok(Number.isFinite(up.nonSaturating.value));
+  const down = generatorObjectives([-Infinity, 0, 1], { scale: "logit" });
+  assert.equal(down.nonSaturating.value, Infinity);
+  assert.ok(Number.isFinite(down.minimax.value));
+});
