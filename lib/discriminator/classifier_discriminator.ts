@@ -36,7 +36,7 @@ export interface ClassifierDiscriminatorOptions {
   /** Confidence level of the log-loss interval (default 0.95). */
   level?: number;
   /** Newton iterations per fit (default 100). */
-  maxIterations?: number;
+  maxIter?: number;
 }
 
 /** The fitted classifier estimate of D*; `prob`/`logit` use the model fitted on all points. */
@@ -89,7 +89,7 @@ function fitModel(
     y[i] = isReal ? 1 : 0;
     s[i] = isReal ? pooled.n / (2 * real.n) : pooled.n / (2 * fake.n);
   }
-  const fit = fitLogistic(x, features.dim, y, s, ridgeOf(options), options.maxIterations ?? 100);
+  const fit = fitLogistic(x, features.dim, y, s, ridgeOf(options), options.maxIter ?? 100);
   return { features, fit };
 }
 
@@ -194,7 +194,7 @@ export function classifierDiscriminator(
   converged &&= full.fit.converged;
   const notes: string[] = [];
   if (!converged) {
-    notes.push("a Newton fit stopped before converging: raise maxIterations or regularization");
+    notes.push("a Newton fit stopped before converging: raise maxIter or regularization");
   }
   const heldOutLogLoss = twoSampleSum(
     logitReal.map((l) => -logSigmoid(l)),

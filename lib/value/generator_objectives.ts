@@ -10,8 +10,11 @@ import { OUTPUT_EPSILON, type OutputScale, outputsToLogits } from "./value_funct
 
 /** Options of {@linkcode generatorObjectives}. */
 export interface GeneratorObjectivesOptions {
-  /** Scale of `dFake` (default "logit"). */
-  scale?: OutputScale;
+  /**
+   * Whether `dFake` holds probabilities or logits. Required: read on the wrong scale, a
+   * probability of 0.9 would pass for a logit of 0.9 without any error.
+   */
+  scale: OutputScale;
   /** Confidence level (default 0.95). */
   level?: number;
   /** Clip for probabilities of exactly 0 or 1 (default 1e-7). */
@@ -55,10 +58,10 @@ export interface GeneratorObjectives {
  */
 export function generatorObjectives(
   dFake: ArrayLike<number>,
-  options: GeneratorObjectivesOptions = {},
+  options: GeneratorObjectivesOptions,
 ): GeneratorObjectives {
   const epsilon = options.epsilon ?? OUTPUT_EPSILON;
-  const { logit, clipped } = outputsToLogits(dFake, options.scale ?? "logit", "dFake", epsilon);
+  const { logit, clipped } = outputsToLogits(dFake, options.scale, "dFake", epsilon);
   const n = logit.length;
   const ns = new Float64Array(n), mm = new Float64Array(n);
   const gNs = new Float64Array(n), gMm = new Float64Array(n);
