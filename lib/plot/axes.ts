@@ -7,6 +7,7 @@
  */
 import * as Plot from "@observablehq/plot";
 import { INK_MUTED, PALETTE, type Role } from "./palette.ts";
+import type { PlotMark } from "./plot_types.ts";
 
 /** Units shown in axis labels. */
 export type AxisUnit = "nats" | "bits" | string;
@@ -98,8 +99,8 @@ export interface ReferenceOptions {
  * assert.equal(referenceY(0.5, { label: "D* = 1/2" }).length, 2);
  * ```
  */
-export function referenceY(value: number, options: ReferenceOptions = {}): Plot.Markish[] {
-  const marks: Plot.Markish[] = [Plot.ruleY([value], { ...lineStyle("reference") })];
+export function referenceY(value: number, options: ReferenceOptions = {}): PlotMark[] {
+  const marks: PlotMark[] = [Plot.ruleY([value], { ...lineStyle("reference") })];
   if (options.label && options.at === "outside") {
     marks.push(
       Plot.text([options.label], {
@@ -139,8 +140,8 @@ export function referenceY(value: number, options: ReferenceOptions = {}): Plot.
  * assert.equal(referenceX(-Math.log(4)).length, 1);
  * ```
  */
-export function referenceX(value: number, options: ReferenceOptions = {}): Plot.Markish[] {
-  const marks: Plot.Markish[] = [Plot.ruleX([value], { ...lineStyle("reference") })];
+export function referenceX(value: number, options: ReferenceOptions = {}): PlotMark[] {
+  const marks: PlotMark[] = [Plot.ruleX([value], { ...lineStyle("reference") })];
   if (options.label) {
     const top = (options.at ?? "end") !== "start";
     marks.push(

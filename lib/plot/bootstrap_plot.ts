@@ -18,7 +18,7 @@ import { INK, PALETTE } from "./palette.ts";
 export interface BootstrapPlotOptions {
   /** What the estimate is, for the axis ("JSD", "V(D*, G)"...; default "statistic"). */
   name?: string;
-  /** Histogram bins (default 40). */
+  /** Histogram bins (default: Rice's rule 2 B^(1/3), between 8 and 50). */
   bins?: number;
   /** A value to compare with (a closed form or an equilibrium value). */
   reference?: number;
@@ -70,7 +70,8 @@ export function plotBootstrap(
       values,
       Plot.binX<Plot.RectYOptions>({ y: "count" }, {
         x: Plot.identity,
-        thresholds: options.bins ?? 40,
+        thresholds: options.bins ??
+          Math.min(50, Math.max(8, Math.round(2 * Math.cbrt(values.length)))),
         fill: PALETTE.optimal.color,
         fillOpacity: 0.35,
         insetLeft: 0.5,

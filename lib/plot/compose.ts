@@ -6,7 +6,7 @@
  *
  * @module
  */
-import type * as Plot from "@observablehq/plot";
+import type { PlotLayerOptions, PlotMark } from "./plot_types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type RenderedLayer, renderLayer } from "./_dom.ts";
 import { escapeXml, short, textWidth } from "./_text.ts";
@@ -37,7 +37,7 @@ export interface PanelSpec {
    * Plot options of each layer, bottom first. A later layer should give its x domain
    * explicitly and may carry a second y axis (`y: { axis: "right" }`).
    */
-  layers: readonly Plot.PlotOptions[];
+  layers: readonly PlotLayerOptions[];
   /** A title above the panel. */
   title?: string;
 }
@@ -90,7 +90,7 @@ export interface FrameSpec {
   /** Notes under the panels (one string per paragraph). */
   caption?: string | readonly string[];
   /** The marks to expose on the Figure (default: the first layer's marks). */
-  marks?: readonly Plot.Markish[];
+  marks?: readonly PlotMark[];
 }
 
 /** Defaults shared by every panel. */
@@ -311,11 +311,11 @@ export function uniqueIds(svg: string): string {
   return rename(svg, (id) => prefix + (ids.get(id) as string));
 }
 
-function flatMarks(m: readonly Plot.Markish[] | undefined): Plot.Markish[] {
+function flatMarks(m: readonly PlotMark[] | undefined): PlotMark[] {
   return m ? [...m] : [];
 }
 
-function layerOptions(p: PanelSpec, l: Plot.PlotOptions): Plot.PlotOptions {
+function layerOptions(p: PanelSpec, l: PlotLayerOptions): PlotLayerOptions {
   const m = { ...FRAME.margin, ...p.margin };
   const axisDefaults = { labelArrow: "none" as const, labelAnchor: "center" as const };
   return {

@@ -4,7 +4,7 @@
  *
  * @module
  */
-import type * as Plot from "@observablehq/plot";
+import type { PlotLayerOptions, PlotMark } from "./plot_types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { withDisplay } from "../estimate/display.ts";
 import { svgToPng } from "./_png.ts";
@@ -18,9 +18,9 @@ export interface FigureInfo {
   /** Title, used in the text form. */
   readonly title?: string;
   /** The builder's marks, to compose into your own `Plot.plot`. */
-  readonly marks?: readonly Plot.Markish[];
+  readonly marks?: readonly PlotMark[];
   /** Every Plot layer the figure was drawn from (options without `document`). */
-  readonly layers?: readonly Plot.PlotOptions[];
+  readonly layers?: readonly PlotLayerOptions[];
 }
 
 /** Options of {@linkcode Figure.toPNG} and {@linkcode Figure.save}. */
@@ -53,9 +53,9 @@ export class Figure {
   /** Title ("" when none). */
   readonly title: string;
   /** The builder's marks: spread them into your own `Plot.plot({ marks: [...] })`. */
-  readonly marks: readonly Plot.Markish[];
+  readonly marks: readonly PlotMark[];
   /** The Plot layers (options) the figure was drawn from. */
-  readonly layers: readonly Plot.PlotOptions[];
+  readonly layers: readonly PlotLayerOptions[];
   readonly #svg: string;
 
   /**

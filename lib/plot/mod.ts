@@ -60,7 +60,16 @@ export {
   type RoleStyle,
 } from "./palette.ts";
 export { Figure, type FigureInfo, type PngOptions } from "./figure.ts";
-export type { Markish, PlotOptions } from "@observablehq/plot";
+// Types that this folder's API mentions, re-exported so that the module documents alone.
+export type { PlotLayerOptions, PlotMark } from "./plot_types.ts";
+export type { RandomSource, Rng } from "../random/rng.ts";
+export type { Samples } from "../samples/samples.ts";
+export type { Density, DensityDescription } from "../density/types.ts";
+export type { Estimate, EstimateUnit } from "../estimate/estimate.ts";
+export type { BootstrapEstimate } from "../estimate/bootstrap.ts";
+export type { Discriminator } from "../discriminator/types.ts";
+export type { DiscriminatorGap, ReliabilityBin } from "../discriminator/discriminator_gap.ts";
+export type { GeneratorObjectives } from "../value/generator_objectives.ts";
 export type { AxisRange } from "./_grid.ts";
 export type { EstimateOrNumber } from "./_estimates.ts";
 export type { ColumnLabelOptions } from "./_columns.ts";

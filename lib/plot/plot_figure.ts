@@ -4,12 +4,12 @@
  *
  * @module
  */
-import type * as Plot from "@observablehq/plot";
+import type { PlotLayerOptions } from "./plot_types.ts";
 import { composeFigure, type LegendItem, type Margins } from "./compose.ts";
 import type { Figure } from "./figure.ts";
 
 /** Plot options plus the frame's title, subtitle, legend and caption. */
-export interface PlotFigureOptions extends Plot.PlotOptions {
+export interface PlotFigureOptions extends PlotLayerOptions {
   /** Title (a Plot `title` is used too). */
   title?: string;
   /** Subtitle. */
