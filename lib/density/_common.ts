@@ -5,7 +5,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { withDisplay } from "../estimate/display.ts";
+import { displayBundle, type MimeBundle, withDisplay } from "../estimate/display.ts";
 import { formatNumber, htmlTable, textTable } from "../estimate/format.ts";
 import type { Samples } from "../samples/samples.ts";
 import type { DensityDescription } from "./types.ts";
@@ -200,4 +200,13 @@ export function canStartWorker(url: URL): boolean {
   } catch {
     return false;
   }
+}
+
+/**
+ * The notebook display of a density object itself: its description's table, so a bare
+ * `pData` in a cell shows what was fitted rather than the object's internals.
+ */
+export function densityBundle(density: { describe(): DensityDescription }): MimeBundle {
+  const desc = density.describe();
+  return displayBundle(desc) ?? { "text/plain": `${desc.kind} density (d = ${desc.d})` };
 }

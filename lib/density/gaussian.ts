@@ -11,6 +11,7 @@ import { fromBuffer, type Samples } from "../samples/samples.ts";
 import {
   checkQuery,
   checkSampleSize,
+  densityBundle,
   description,
   LOG_2PI,
   type MatrixInput,
@@ -19,6 +20,7 @@ import {
   toVector,
 } from "./_common.ts";
 import type { Density, DensityDescription } from "./types.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
 
 /** A multivariate normal density with its parameters exposed for closed forms. */
 export interface GaussianDensity extends Density {
@@ -90,6 +92,11 @@ class Gaussian implements GaussianDensity {
     const out = new Float64Array(n * this.d);
     for (let r = 0; r < n; r++) this.drawInto(rng, out, r * this.d);
     return fromBuffer(out, this.d);
+  }
+
+  /** Rich notebook display: the description's parameter table. */
+  [JUPYTER_DISPLAY](): MimeBundle {
+    return densityBundle(this);
   }
 
   describe(): DensityDescription {

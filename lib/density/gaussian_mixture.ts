@@ -10,6 +10,7 @@ import { fromBuffer, type Samples } from "../samples/samples.ts";
 import {
   checkQuery,
   checkSampleSize,
+  densityBundle,
   description,
   type MatrixInput,
   matrixRows,
@@ -17,6 +18,7 @@ import {
 } from "./_common.ts";
 import { drawGaussianInto, gaussian, type GaussianDensity } from "./gaussian.ts";
 import type { Density, DensityDescription } from "./types.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
 
 /** Parameters of {@linkcode gaussianMixture}. */
 export interface GaussianMixtureParameters {
@@ -90,6 +92,11 @@ class Mixture implements GaussianMixtureDensity {
     const out = new Float64Array(n * this.d);
     for (let r = 0; r < n; r++) drawGaussianInto(this.components[pick()], rng, out, r * this.d);
     return fromBuffer(out, this.d);
+  }
+
+  /** Rich notebook display: the description's parameter table. */
+  [JUPYTER_DISPLAY](): MimeBundle {
+    return densityBundle(this);
   }
 
   describe(): DensityDescription {

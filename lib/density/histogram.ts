@@ -7,8 +7,9 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import { quantileSorted } from "../estimate/bootstrap.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples, samples, type SamplesInput } from "../samples/samples.ts";
-import { checkQuery, checkSampleSize, description } from "./_common.ts";
+import { checkQuery, checkSampleSize, densityBundle, description } from "./_common.ts";
 import type { Density, DensityDescription } from "./types.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
 
 /** Options of {@linkcode fitHistogram}. */
 export interface HistogramOptions {
@@ -221,6 +222,11 @@ class Histogram implements HistogramDensity {
       }
     }
     return fromBuffer(out, d);
+  }
+
+  /** Rich notebook display: the description's parameter table. */
+  [JUPYTER_DISPLAY](): MimeBundle {
+    return densityBundle(this);
   }
 
   describe(): DensityDescription {

@@ -14,6 +14,7 @@ import {
   canStartWorker,
   checkQuery,
   checkSampleSize,
+  densityBundle,
   description,
   LOG_2PI,
   type MatrixInput,
@@ -35,6 +36,7 @@ import {
   silvermanRuleOfThumb,
 } from "./bandwidth.ts";
 import type { Density, DensityDescription } from "./types.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
 
 /** A named bandwidth rule. */
 export type BandwidthRule = "scott" | "silverman" | "cv" | "diffusion";
@@ -290,6 +292,11 @@ class Kde implements KdeDensity {
       }
     }
     return fromBuffer(out, d);
+  }
+
+  /** Rich notebook display: the description's parameter table. */
+  [JUPYTER_DISPLAY](): MimeBundle {
+    return densityBundle(this);
   }
 
   describe(): DensityDescription {

@@ -6,8 +6,9 @@
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples } from "../samples/samples.ts";
-import { checkQuery, checkSampleSize, description, toVector } from "./_common.ts";
+import { checkQuery, checkSampleSize, densityBundle, description, toVector } from "./_common.ts";
 import type { Density, DensityDescription } from "./types.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
 
 /** The uniform density on a box, exposing its corners. */
 export interface UniformBoxDensity extends Density {
@@ -94,6 +95,11 @@ class UniformBox implements UniformBoxDensity {
       for (let j = 0; j < d; j++) out[r * d + j] = rng.uniform(lower[j], upper[j]);
     }
     return fromBuffer(out, d);
+  }
+
+  /** Rich notebook display: the description's parameter table. */
+  [JUPYTER_DISPLAY](): MimeBundle {
+    return densityBundle(this);
   }
 
   describe(): DensityDescription {

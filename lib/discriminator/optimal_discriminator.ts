@@ -5,6 +5,8 @@
  */
 import type { Density } from "../density/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
+import { withDisplay } from "../estimate/display.ts";
+import { escapeHtml } from "../estimate/format.ts";
 import { assertSameDimension, type Samples } from "../samples/samples.ts";
 import { sigmoid } from "./_logistic.ts";
 import type { Discriminator } from "./types.ts";
@@ -116,12 +118,18 @@ export function optimalDiscriminator(pData: Density, pModel: Density): OptimalDi
       : [];
     return { prob, logit, undefinedCount, notes };
   };
-  return {
+  return withDisplay({
     d: pData.d,
     pData,
     pModel,
     evaluate,
     prob: (x) => evaluate(x).prob,
     logit: (x) => evaluate(x).logit,
-  };
+  }, (o: OptimalDiscriminator) => {
+    const text = `D*(x) = p_data(x) / (p_data(x) + p_g(x)) in d = ${o.d}, from a ` +
+      `${o.pData.describe().kind} density (data) and a ${o.pModel.describe().kind} density ` +
+      "(model); evaluate it with .prob(x) or .logit(x), or draw it with plotDensities / " +
+      "plotDiscriminatorMap";
+    return { "text/plain": text, "text/html": `<p>${escapeHtml(text)}</p>` };
+  });
 }

@@ -10,6 +10,8 @@
  */
 import { logSigmoid, sigmoid, softplus } from "../discriminator/_logistic.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
+import { type MimeBundle, withDisplay } from "../estimate/display.ts";
+import { formatNumber, htmlTable, textTable } from "../estimate/format.ts";
 
 /** One row of the f-divergence table. All functions are written for stable evaluation. */
 export interface FDivergenceSpec {
@@ -265,7 +267,7 @@ export const F_DIVERGENCES: Readonly<{
   neyman: FDivergenceSpec;
   "squared-hellinger": FDivergenceSpec;
   "total-variation": FDivergenceSpec;
-}> = Object.freeze({
+}> = Object.freeze(withDisplay({
   kl,
   "reverse-kl": reverseKl,
   "jensen-shannon": jensenShannon,
@@ -274,7 +276,26 @@ export const F_DIVERGENCES: Readonly<{
   neyman,
   "squared-hellinger": squaredHellinger,
   "total-variation": totalVariation,
-});
+}, tableBundle));
+
+/** The table as a notebook cell shows it: one row per divergence. */
+function tableBundle(table: Readonly<Record<string, FDivergenceSpec>>): MimeBundle {
+  const header = ["name", "divergence", "f(0+)", "lim f(u)/u", "domain of T", "range", "source"];
+  const rows = Object.values(table).map((s) => [
+    s.name,
+    s.label,
+    s.fAtZero,
+    s.slopeAtInfinity,
+    s.domainText,
+    `[${formatNumber(s.range[0])}, ${formatNumber(s.range[1])}]`,
+    s.reference,
+  ]);
+  const caption = "f-divergences D_f(P || Q) = E_Q[f(p/q)]; α family via alphaDivergence(α)";
+  return {
+    "text/plain": `${caption}\n${textTable(header, rows)}`,
+    "text/html": htmlTable(header, rows, caption),
+  };
+}
 
 /** Names of the fixed table rows, plus "alpha" for the α family. */
 export type FDivergenceName = keyof typeof F_DIVERGENCES | "alpha";

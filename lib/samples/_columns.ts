@@ -6,6 +6,7 @@
 import { SaddleError } from "../errors/saddle_error.ts";
 import type { Samples } from "./samples.ts";
 import { selectColumns } from "./transform.ts";
+import { makeSamples } from "./_make.ts";
 
 /** Columns to keep: 0-based indices, or names when the data have names. */
 export type ColumnSelection = readonly (number | string)[];
@@ -29,7 +30,7 @@ export function nameAndSelect(
         { ...(source !== undefined ? { file: source } : {}), parameter: "names" },
       );
     }
-    out = { n: s.n, d: s.d, data: s.data, columns: [...names] };
+    out = makeSamples(s.n, s.d, s.data, names);
   }
   if (columns === undefined) return out;
   try {

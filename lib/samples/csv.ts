@@ -12,6 +12,7 @@ import type { Samples } from "./samples.ts";
 import { type ColumnSelection, fileLoc } from "./_columns.ts";
 import { lineOfRow } from "./_csv_lines.ts";
 import { readText } from "./_io.ts";
+import { makeSamples } from "./_make.ts";
 
 /** Options of {@linkcode parseCsv} and {@linkcode readCsv}. */
 export interface CsvOptions {
@@ -230,7 +231,7 @@ export function parseCsv(text: string, options: CsvOptions = {}): Samples {
   }
   const out = data.length === n * d ? data : data.slice(0, n * d);
   const cols = names ? keep.map((j) => names![j]) : undefined;
-  return cols ? { n, d, data: out, columns: cols } : { n, d, data: out };
+  return makeSamples(n, d, out, cols);
 }
 
 function resolveColumns(

@@ -4,6 +4,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { makeSamples } from "./_make.ts";
 
 /**
  * A set of `n` points in `d` dimensions, stored row-major: point `i`, coordinate `j` is
@@ -167,11 +168,7 @@ export function fromBuffer(
   }
   assertFinite(data, d, source);
   checkColumns(columns, d, source);
-  return columns ? { n: data.length / d, d, data, columns: [...columns] } : {
-    n: data.length / d,
-    d,
-    data,
-  };
+  return makeSamples(data.length / d, d, data, columns);
 }
 
 /**
@@ -349,7 +346,7 @@ function fromRecords(
       });
     }
   }
-  return { n, d, data, columns: [...keys] };
+  return makeSamples(n, d, data, keys);
 }
 
 function checkDim(d: number): number {

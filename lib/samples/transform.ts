@@ -7,6 +7,7 @@
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { assertSameDimension, type Samples } from "./samples.ts";
+import { makeSamples } from "./_make.ts";
 
 /**
  * The columns `which` (indices, or names when `s.columns` is set), in that order.
@@ -50,7 +51,7 @@ export function selectColumns(s: Samples, which: readonly (number | string)[]): 
     for (let j = 0; j < d; j++) out[i * d + j] = s.data[i * s.d + idx[j]];
   }
   const columns = s.columns ? idx.map((j) => s.columns![j]) : undefined;
-  return columns ? { n: s.n, d, data: out, columns } : { n: s.n, d, data: out };
+  return makeSamples(s.n, d, out, columns);
 }
 
 /** A per-column affine map `z = (x - shift) / scale`, kept so it can be undone. */
@@ -116,7 +117,7 @@ export function standardize(
         out[k] = forward ? (x.data[k] - shift[j]) / scale[j] : x.data[k] * scale[j] + shift[j];
       }
     }
-    return x.columns ? { n: x.n, d, data: out, columns: x.columns } : { n: x.n, d, data: out };
+    return makeSamples(x.n, d, out, x.columns);
   };
   const transform: AffineTransform = {
     shift,
@@ -150,7 +151,7 @@ export function takeRows(s: Samples, indices: ArrayLike<number>): Samples {
     out.set(s.data.subarray(i * d, i * d + d), r * d);
   }
   const n = indices.length;
-  return s.columns ? { n, d, data: out, columns: s.columns } : { n, d, data: out };
+  return makeSamples(n, d, out, s.columns);
 }
 
 /** Options of {@linkcode trainTestSplit}. */
@@ -217,5 +218,5 @@ export function concatSamples(...parts: readonly Samples[]): Samples {
     off += p.data.length;
   }
   const columns = parts[0].columns;
-  return columns ? { n, d, data, columns } : { n, d, data };
+  return makeSamples(n, d, data, columns);
 }

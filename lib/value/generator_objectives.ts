@@ -5,7 +5,9 @@
  * @module
  */
 import { logSigmoid, sigmoid } from "../discriminator/_logistic.ts";
+import { type MimeBundle, withDisplay } from "../estimate/display.ts";
 import { type Estimate, meanEstimate } from "../estimate/estimate.ts";
+import { htmlTable, textTable } from "../estimate/format.ts";
 import { OUTPUT_EPSILON, type OutputScale, outputsToLogits } from "./value_function.ts";
 
 /** Options of {@linkcode generatorObjectives}. */
@@ -79,12 +81,26 @@ export function generatorObjectives(
     ? [`${clipped} outputs were exactly 0 or 1 and were clipped to [${epsilon}, 1 - ${epsilon}]`]
     : [];
   const opt = { level: options.level, method: "sample mean", unit: "nats" as const, notes };
-  return {
+  return withDisplay({
     nonSaturating: meanEstimate(ns, opt),
     minimax: meanEstimate(mm, opt),
     gradNonSaturating: gNs,
     gradMinimax: gMm,
     meanAbsGradient: { nonSaturating: aNs / n, minimax: aMm / n },
     notes,
+  }, objectivesBundle);
+}
+
+function objectivesBundle(g: GeneratorObjectives): MimeBundle {
+  const header = ["generator objective", "estimate (nats)", "mean |d/dlogit|"];
+  const rows = [
+    ["non-saturating  -E_g[ln D(G(z))]", g.nonSaturating, g.meanAbsGradient.nonSaturating],
+    ["minimax  E_g[ln(1 - D(G(z)))]", g.minimax, g.meanAbsGradient.minimax],
+  ];
+  const caption = `generator objectives on n = ${g.gradMinimax.length} generated samples` +
+    (g.notes.length ? `; ${g.notes.join("; ")}` : "");
+  return {
+    "text/plain": `${caption}\n${textTable(header, rows)}`,
+    "text/html": htmlTable(header, rows, caption),
   };
 }
