@@ -56,8 +56,10 @@ export function ignoreWithoutPython(
   if (!warned) {
     warned = true;
     console.error(
-      `\n*** reference checks against ${modules.join("/")} are IGNORED: ${PYTHON} cannot ` +
-        `import them. Install with: ${INSTALL_HINT}\n`,
+      `\n*** reference checks against ${
+        modules.length ? modules.join("/") : "Python's standard library"
+      } are IGNORED: ${PYTHON} cannot ${modules.length ? "import them" : "run"}. ` +
+        `Install with: ${INSTALL_HINT}\n`,
     );
   }
   return true;
