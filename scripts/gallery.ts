@@ -95,14 +95,14 @@ if (import.meta.main) {
     seed: SEED,
   });
   await write("reliability", sk.plotReliability(gap));
-  // V(D, G) of the trained discriminator on the held-out rows, bootstrapped side by side.
-  const logD = scores.real.map(Math.log), log1mD = scores.fake.map((p) => Math.log1p(-p));
-  const mean = (v: number[], idx: Uint32Array) => idx.reduce((t, i) => t + v[i], 0) / idx.length;
-  const vBoot = sk.bootstrap(
-    [logD.length, log1mD.length],
-    (ir, jf) => mean(logD, ir) + mean(log1mD, jf),
-    { seed: SEED, replicates: 2000, unit: "nats" },
-  );
+  // V(D, G) of the trained discriminator; its bootstrap resamples each side on its own.
+  const vBoot = sk.valueFunction({
+    dReal: scores.real,
+    dFake: scores.fake,
+    scale: "prob",
+    seed: SEED,
+    replicates: 2000,
+  });
   await write(
     "bootstrap",
     sk.plotBootstrap(vBoot, {

@@ -10,7 +10,7 @@ import { fitKde } from "../density/kde.ts";
 import type { Density } from "../density/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type BootstrapEstimate, percentileInterval } from "../estimate/bootstrap.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
+import { withHidden } from "../estimate/_hidden.ts";
 import {
   type Estimate,
   type EstimateUnit,
@@ -309,25 +309,6 @@ export function refitEstimate(
     ...(fields.unit ? { unit: fields.unit } : {}),
   });
   return withHidden(est, { replicates: reps }) as BootstrapEstimate;
-}
-
-/**
- * A frozen copy of `obj` with extra non-enumerable properties (and optionally a new rich
- * display), leaving out `obj`'s own display when a new one is given.
- */
-export function withHidden<T extends object>(
-  obj: T,
-  hidden: Record<string, unknown>,
-  display?: () => MimeBundle,
-): T {
-  const desc = Object.getOwnPropertyDescriptors(obj) as Record<PropertyKey, PropertyDescriptor>;
-  if (display) delete desc[JUPYTER_DISPLAY];
-  const out = Object.create(Object.getPrototypeOf(obj), desc);
-  for (const [k, v] of Object.entries(hidden)) {
-    Object.defineProperty(out, k, { value: v, enumerable: false });
-  }
-  if (display) Object.defineProperty(out, JUPYTER_DISPLAY, { value: display, enumerable: false });
-  return Object.freeze(out) as T;
 }
 
 /** The notes every refit result carries: what was done, failures, and the bias caveat. */

@@ -8,6 +8,7 @@
 import type { Density } from "../density/types.ts";
 import type { BootstrapEstimate } from "../estimate/bootstrap.ts";
 import type { Estimate } from "../estimate/estimate.ts";
+import { withHidden } from "../estimate/_hidden.ts";
 import { escapeHtml, htmlTable, textTable } from "../estimate/format.ts";
 import type { RandomSource } from "../random/rng.ts";
 import type { Samples, SamplesInput } from "../samples/samples.ts";
@@ -19,7 +20,6 @@ import {
   refitIntegration,
   refitNotes,
   runReplicates,
-  withHidden,
 } from "./_refit_bootstrap.ts";
 import { fDivergence, type FDivergenceOptions } from "./f_divergence.ts";
 import { type FDivergenceName, type FDivergenceSpec, fDivergenceSpec } from "./f_divergences.ts";

@@ -4,6 +4,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { withHidden } from "./_hidden.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { type Estimate, type EstimateUnit, makeEstimate, meanVariance } from "./estimate.ts";
 
@@ -98,10 +99,7 @@ export function bootstrap(
     notes,
     ...(options.unit ? { unit: options.unit } : {}),
   });
-  // makeEstimate froze its result; attach the replicates to a thawed copy of it.
-  const out = Object.create(Object.getPrototypeOf(est), Object.getOwnPropertyDescriptors(est));
-  Object.defineProperty(out, "replicates", { value: replicates, enumerable: false });
-  return Object.freeze(out) as BootstrapEstimate;
+  return withHidden(est, { replicates }) as BootstrapEstimate;
 }
 
 /**

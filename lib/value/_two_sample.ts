@@ -4,6 +4,7 @@
  *
  * @module
  */
+import { withHidden } from "../estimate/_hidden.ts";
 import { bootstrap } from "../estimate/bootstrap.ts";
 import {
   type Estimate,
@@ -63,14 +64,18 @@ export function twoSampleSum(
     for (let i = 0; i < ib.length; i++) sb += b[ib[i]];
     return wa * sa / ia.length + wb * sb / ib.length;
   }, { level, seed: options.seed ?? 0, replicates: options.replicates ?? 1000 });
-  return makeEstimate({
-    value,
-    se,
-    ...(boot.ci ? { ci: boot.ci } : {}),
-    level,
-    method: "two-sample mean, bootstrap-percentile CI",
-    n,
-    notes: [...notes, ...boot.notes],
-    ...unit,
-  });
+  // The replicates stay attached (non-enumerable) so plotBootstrap can draw them.
+  return withHidden(
+    makeEstimate({
+      value,
+      se,
+      ...(boot.ci ? { ci: boot.ci } : {}),
+      level,
+      method: "two-sample mean, bootstrap-percentile CI",
+      n,
+      notes: [...notes, ...boot.notes],
+      ...unit,
+    }),
+    { replicates: boot.replicates },
+  );
 }

@@ -8,6 +8,7 @@ import { gaussian, uniformBox } from "../../lib/density/mod.ts";
 import { optimalDiscriminator } from "../../lib/discriminator/mod.ts";
 import { SaddleError } from "../../lib/errors/mod.ts";
 import { samples } from "../../lib/samples/mod.ts";
+import { Rng } from "../../lib/random/mod.ts";
 import { generatorObjectives, OUTPUT_EPSILON, valueFunction } from "../../lib/value/mod.ts";
 
 Deno.test("valueFunction: -ln 4 exactly at D = 1/2 (Goodfellow et al. 2014, Thm. 1)", () => {
@@ -132,4 +133,19 @@ Deno.test("generatorObjectives: a logit of ±Infinity (kept, not clipped) gives 
   const down = generatorObjectives([-Infinity, 0, 1], { scale: "logit" });
   assert.equal(down.nonSaturating.value, Infinity);
   assert.ok(Number.isFinite(down.minimax.value));
+});
+
+Deno.test("valueFunction: bootstrap replicates stay attached and agree with the analytic se", () => {
+  // Common practice, no source: the bootstrap sd of a two-sample mean sum approaches
+  // sqrt(s_r²/n_r + s_f²/n_f).
+  const r = new Rng(4);
+  const dReal = Array.from({ length: 400 }, () => 1 / (1 + Math.exp(-r.normal(0.5, 1))));
+  const dFake = Array.from({ length: 300 }, () => 1 / (1 + Math.exp(-r.normal(-0.5, 1))));
+  const v = valueFunction({ dReal, dFake, scale: "prob", seed: 3, replicates: 800 });
+  const reps = (v as typeof v & { replicates: Float64Array }).replicates;
+  assert.equal(reps.length, 800);
+  const mean = reps.reduce((a, b) => a + b, 0) / reps.length;
+  const sd = Math.sqrt(reps.reduce((a, b) => a + (b - mean) ** 2, 0) / (reps.length - 1));
+  assertClose(sd, v.se!, { rel: 0.15 });
+  assert.equal("replicates" in JSON.parse(JSON.stringify(v)), false);
 });
