@@ -15,17 +15,7 @@ import { fromBuffer } from "../lib/samples/samples.ts";
 import { runReference } from "../tests/_reference.ts";
 import { maxRelError } from "../tests/_assert.ts";
 import { registerCase, timed } from "./_compare_registry.ts";
-
-/** Normal data with a shifted third of the rows and some correlation. */
-function kdeData(n: number, d: number, seed: number): Float64Array {
-  const r = new Rng(seed);
-  const x = r.fillNormal(new Float64Array(n * d));
-  for (let i = 0; i < n; i++) {
-    x[i * d] = 2 * x[i * d] + (i % 3 === 0 ? 3 : 0);
-    if (d > 1) x[i * d + 1] += 0.5 * x[i * d];
-  }
-  return x;
-}
+import { shiftedNormalData as kdeData } from "../tests/_data.ts";
 
 for (const [d, n, m, target] of [[1, 1e4, 1e4, 0.2], [2, 2e4, 2e4, 0.3], [5, 1e4, 1e4, 1.0]]) {
   registerCase({

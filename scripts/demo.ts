@@ -10,12 +10,11 @@
  * @module
  */
 import * as sk from "../mod.ts";
+import { assessTrained, DEMO_DIR, loadDemo } from "./_demo.ts";
 
 const args = [...Deno.args];
 const dataFlag = args.indexOf("--data");
-const dataDir = dataFlag >= 0
-  ? args.splice(dataFlag, 2)[1]
-  : new URL("../data/demo/", import.meta.url).pathname;
+const dataDir = dataFlag >= 0 ? args.splice(dataFlag, 2)[1] : DEMO_DIR;
 const outDir = args[0] ?? "out/demo";
 const SEED = 7;
 const t0 = performance.now();
@@ -23,14 +22,8 @@ const say = (s = "") => console.log(s);
 const section = (title: string) => say(`\n== ${title}`);
 
 section("Samples");
-const real = await sk.readSamples(`${dataDir}/turbine_real.csv`);
-const fake = await sk.readSamples(`${dataDir}/turbine_fake.npy`, {
-  names: real.columns ? [...real.columns] : undefined,
-});
-const scores = JSON.parse(await Deno.readTextFile(`${dataDir}/disc_scores.json`)) as {
-  real: number[];
-  fake: number[];
-};
+const demo = await loadDemo(dataDir);
+const { real, fake } = demo;
 say(sk.textTable(["side", "file", "n", "d", "columns"], [
   ["real", "turbine_real.csv", real.n, real.d, (real.columns ?? []).join(", ")],
   ["generated", "turbine_fake.npy", fake.n, fake.d, (fake.columns ?? []).join(", ")],
@@ -101,22 +94,7 @@ say(sk.textTable(["quantity", "value"], [
 ]));
 
 section("The trained discriminator (scores in disc_scores.json)");
-const value = sk.valueFunction({
-  dReal: scores.real,
-  dFake: scores.fake,
-  scale: "prob",
-  seed: SEED,
-});
-const gap = sk.discriminatorGap({
-  dReal: scores.real,
-  dFake: scores.fake,
-  scale: "prob",
-  real,
-  fake,
-  pData,
-  pModel,
-  seed: SEED,
-});
+const { value, gap } = assessTrained(demo, { pData, pModel }, SEED);
 say(sk.textTable(["quantity", "estimate"], [
   ["V(D, G) of the trained D", value],
   ["V(D*, G) - V(D, G) (gap)", gap.gap],

@@ -7,27 +7,20 @@
  * @module
  */
 import * as sk from "../mod.ts";
+import { assessTrained, loadDemo } from "./_demo.ts";
 
 const outArg = Deno.args.indexOf("--out");
 const out = outArg >= 0
   ? new URL(`file://${Deno.realPathSync(Deno.args[outArg + 1])}/`)
   : new URL("../docs/gallery/", import.meta.url);
-const demo = new URL("../data/demo/", import.meta.url);
 const png = Deno.args.includes("--png");
 const SEED = 2026;
 
 /** The demo data and the fits every figure below draws on. */
 export async function demoSetup() {
-  const real = await sk.readSamples(new URL("turbine_real.csv", demo).pathname);
-  const fake = await sk.readSamples(new URL("turbine_fake.npy", demo).pathname, {
-    names: real.columns,
-  });
-  const scores = JSON.parse(await Deno.readTextFile(new URL("disc_scores.json", demo))) as {
-    real: number[];
-    fake: number[];
-  };
+  const data = await loadDemo();
   const fit = (s: sk.Samples) => sk.fitGaussianMixture(s, { components: 3, seed: SEED });
-  return { real, fake, scores, pData: fit(real), pModel: fit(fake), fit };
+  return { ...data, pData: fit(data.real), pModel: fit(data.fake), fit };
 }
 
 async function write(name: string, fig: sk.Figure): Promise<void> {
@@ -38,7 +31,8 @@ async function write(name: string, fig: sk.Figure): Promise<void> {
 
 if (import.meta.main) {
   await Deno.mkdir(out, { recursive: true });
-  const { real, fake, scores, pData, pModel, fit } = await demoSetup();
+  const setup = await demoSetup();
+  const { real, fake, scores, pData, pModel, fit } = setup;
   const labels = ["wind speed", "vibration"], units = ["m/s", "mm/s"];
 
   // 1-D: the wind-speed column of both sides.
@@ -84,25 +78,10 @@ if (import.meta.main) {
     ),
   );
 
-  const gap = sk.discriminatorGap({
-    dReal: scores.real,
-    dFake: scores.fake,
-    scale: "prob",
-    real,
-    fake,
-    pData,
-    pModel,
-    seed: SEED,
-  });
+  // V(D, G) of the trained discriminator (its bootstrap resamples each side on its own) and
+  // its gap to D*.
+  const { value: vBoot, gap } = assessTrained(setup, { pData, pModel }, SEED, 2000);
   await write("reliability", sk.plotReliability(gap));
-  // V(D, G) of the trained discriminator; its bootstrap resamples each side on its own.
-  const vBoot = sk.valueFunction({
-    dReal: scores.real,
-    dFake: scores.fake,
-    scale: "prob",
-    seed: SEED,
-    replicates: 2000,
-  });
   await write(
     "bootstrap",
     sk.plotBootstrap(vBoot, {

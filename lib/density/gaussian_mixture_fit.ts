@@ -478,7 +478,7 @@ function toFit(
   const aic = -2 * total + 2 * p;
   const notes: string[] = [];
   if (!run.converged) notes.push(`EM stopped at maxIter = ${run.iterations} before meeting tol`);
-  const info = {
+  const fitted = {
     covarianceType: type,
     logLikelihood: run.ll,
     iterations: run.iterations,
@@ -486,18 +486,7 @@ function toFit(
     nParameters: p,
     bic,
     aic,
-    restarts,
-    regularization: reg,
-    n,
   };
-  const mix = mixtureFromComponents(run.params.w, comps, info, notes);
-  return Object.assign(mix, {
-    logLikelihood: run.ll,
-    iterations: run.iterations,
-    converged: run.converged,
-    nParameters: p,
-    bic,
-    aic,
-    covarianceType: type,
-  });
+  const info = { ...fitted, restarts, regularization: reg, n };
+  return Object.assign(mixtureFromComponents(run.params.w, comps, info, notes), fitted);
 }

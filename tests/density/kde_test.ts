@@ -8,6 +8,7 @@ import { SaddleError } from "../../lib/errors/saddle_error.ts";
 import { displayBundle } from "../../lib/estimate/display.ts";
 import { assertClose, assertWithinSe, maxRelError } from "../_assert.ts";
 import { ignoreWithoutPython, runReference } from "../_reference.ts";
+import { shiftedNormalData as data } from "../_data.ts";
 
 interface ScipyKde {
   logpdf: number[];
@@ -17,17 +18,6 @@ interface ScipyKde {
   covariance: number[];
   neff: number;
   silverman_rot?: number;
-}
-
-/** Bimodal-ish data: normal, first column shifted for every third row. */
-function data(n: number, d: number, seed: number): Float64Array {
-  const r = new Rng(seed);
-  const x = r.fillNormal(new Float64Array(n * d));
-  for (let i = 0; i < n; i++) {
-    x[i * d] = 2 * x[i * d] + (i % 3 === 0 ? 3 : 0);
-    if (d > 1) x[i * d + 1] += 0.5 * x[i * d];
-  }
-  return x;
 }
 
 function queries(m: number, d: number, seed: number): Float64Array {

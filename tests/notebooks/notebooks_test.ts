@@ -10,6 +10,7 @@
  */
 import assert from "node:assert/strict";
 import * as sk from "../../mod.ts";
+import { assessTrained, type DemoData, loadDemo } from "../../scripts/_demo.ts";
 import {
   assertJupyter,
   ignoreWithoutJupyter,
@@ -20,7 +21,6 @@ import {
 } from "./_notebooks.ts";
 
 const dir = new URL("../../notebooks/", import.meta.url);
-const demo = (name: string) => new URL(`../../data/demo/${name}`, import.meta.url).pathname;
 const notebooks = [...Deno.readDirSync(dir)]
   .filter((e) => e.isFile && e.name.endsWith(".ipynb"))
   .map((e) => e.name)
@@ -35,14 +35,16 @@ interface NotebookJson {
 const source = (c: NotebookJson["cells"][number]) =>
   Array.isArray(c.source) ? c.source.join("") : c.source;
 
-async function demoSides() {
-  const real = await sk.readSamples(demo("turbine_real.csv"));
-  const fake = await sk.readSamples(demo("turbine_fake.npy"), { names: real.columns });
-  const scores = JSON.parse(await Deno.readTextFile(demo("disc_scores.json"))) as {
-    real: number[];
-    fake: number[];
+/** Mixture fits of both sides and the decomposition by grid and by Monte Carlo. */
+function fitsAndDecompositions(data: DemoData, seed: number) {
+  const pData = sk.fitGaussianMixture(data.real, { components: 3, seed });
+  const pModel = sk.fitGaussianMixture(data.fake, { components: 3, seed });
+  return {
+    pData,
+    pModel,
+    dec: sk.optimumDecomposition(pData, pModel, { method: "grid", seed }),
+    decMc: sk.optimumDecomposition(pData, pModel, { method: "monte-carlo", n: 20000, seed }),
   };
-  return { real, fake, scores };
 }
 
 /** The refit-bootstrap decomposition both notebooks run (3-component mixtures). */
@@ -56,31 +58,10 @@ function sampleTerms(real: sk.Samples, fake: sk.Samples, seed: number, replicate
 const EXPECTED: Record<string, () => Promise<Record<string, unknown>>> = {
   "01_quick_start.ipynb": async () => {
     const SEED = 7;
-    const { real, fake, scores } = await demoSides();
-    const pData = sk.fitGaussianMixture(real, { components: 3, seed: SEED });
-    const pModel = sk.fitGaussianMixture(fake, { components: 3, seed: SEED });
-    const dec = sk.optimumDecomposition(pData, pModel, { method: "grid", seed: SEED });
-    const decMc = sk.optimumDecomposition(pData, pModel, {
-      method: "monte-carlo",
-      n: 20000,
-      seed: SEED,
-    });
-    const vTrained = sk.valueFunction({
-      dReal: scores.real,
-      dFake: scores.fake,
-      scale: "prob",
-      seed: SEED,
-    });
-    const gap = sk.discriminatorGap({
-      dReal: scores.real,
-      dFake: scores.fake,
-      scale: "prob",
-      real,
-      fake,
-      pData,
-      pModel,
-      seed: SEED,
-    });
+    const data = await loadDemo();
+    const { real, fake } = data;
+    const { pData, pModel, dec, decMc } = fitsAndDecompositions(data, SEED);
+    const { value: vTrained, gap } = assessTrained(data, { pData, pModel }, SEED);
     return {
       valueAtOptimum: dec.value.value,
       jsd: dec.jsd.value,
@@ -98,15 +79,9 @@ const EXPECTED: Record<string, () => Promise<Record<string, unknown>>> = {
   },
   "02_checking_claims.ipynb": async () => {
     const SEED = 11;
-    const { real, fake, scores } = await demoSides();
-    const pData = sk.fitGaussianMixture(real, { components: 3, seed: SEED });
-    const pModel = sk.fitGaussianMixture(fake, { components: 3, seed: SEED });
-    const dec = sk.optimumDecomposition(pData, pModel, { method: "grid", seed: SEED });
-    const decMc = sk.optimumDecomposition(pData, pModel, {
-      method: "monte-carlo",
-      n: 20000,
-      seed: SEED,
-    });
+    const data = await loadDemo();
+    const { real, fake } = data;
+    const { pData, pModel, dec, decMc } = fitsAndDecompositions(data, SEED);
     const same = sk.gaussianMixture({
       weights: [0.5, 0.5],
       means: [[4, 1.4], [10, 3.2]],
@@ -122,16 +97,7 @@ const EXPECTED: Record<string, () => Promise<Record<string, unknown>>> = {
         seed: SEED,
       }).value
     );
-    const gap = sk.discriminatorGap({
-      dReal: scores.real,
-      dFake: scores.fake,
-      scale: "prob",
-      real,
-      fake,
-      pData,
-      pModel,
-      seed: SEED,
-    });
+    const { gap } = assessTrained(data, { pData, pModel }, SEED);
     return {
       failed: 0,
       jsdDemo: dec.jsd.value,
