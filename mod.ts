@@ -12,6 +12,8 @@
  * @module
  */
 export * from "./lib/errors/mod.ts";
+export * from "./lib/math/mod.ts";
+export * from "./lib/display/mod.ts";
 export * from "./lib/samples/mod.ts";
 export * from "./lib/random/mod.ts";
 export * from "./lib/estimate/mod.ts";

@@ -5,86 +5,14 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { displayBundle, type MimeBundle, withDisplay } from "../estimate/display.ts";
-import { formatNumber, htmlTable, textTable } from "../estimate/format.ts";
+import { displayBundle, type MimeBundle, withDisplay } from "../display/display.ts";
+import { formatNumber, htmlTable, textTable } from "../display/table.ts";
 import type { Samples } from "../samples/samples.ts";
 import type { DensityDescription } from "./types.ts";
 
-/** A square matrix: row-major flat values or rows (a number is a 1 x 1 matrix or σ² I). */
-export type MatrixInput = number | ArrayLike<number> | readonly (readonly number[])[];
+export { LOG_2PI, logSumExp } from "../math/log_space.ts";
 
-/** `ln(2π)`. */
-export const LOG_2PI = Math.log(2 * Math.PI);
-
-/** A vector input as a Float64Array of finite values. */
-export function toVector(v: number | ArrayLike<number>, name: string): Float64Array {
-  const out = typeof v === "number" ? new Float64Array([v]) : Float64Array.from(v);
-  if (out.length === 0) throw new SaddleError("empty", `${name} is empty`, { parameter: name });
-  for (let i = 0; i < out.length; i++) {
-    if (!Number.isFinite(out[i])) {
-      throw new SaddleError("non-finite", `${name}[${i}] is ${out[i]}`, { parameter: name });
-    }
-  }
-  return out;
-}
-
-/**
- * A `d x d` row-major matrix from flat values, rows, or a number (σ² I). Checks finiteness
- * and symmetry (to 1e-10 relative).
- */
-export function toMatrix(m: MatrixInput, d: number, name: string): Float64Array {
-  let out: Float64Array;
-  if (typeof m === "number") {
-    out = new Float64Array(d * d);
-    for (let i = 0; i < d; i++) out[i * d + i] = m;
-  } else if (m.length > 0 && typeof (m as ArrayLike<unknown>)[0] === "object") {
-    const rows = m as readonly (readonly number[])[];
-    if (rows.length !== d || rows.some((r) => r.length !== d)) {
-      throw new SaddleError(
-        "dimension-mismatch",
-        `${name} must be ${d} x ${d} (the dimension of the mean), got ${rows.length} rows of ` +
-          `lengths ${rows.map((r) => r.length).join(", ")}`,
-        { parameter: name },
-      );
-    }
-    out = new Float64Array(d * d);
-    for (let i = 0; i < d; i++) for (let j = 0; j < d; j++) out[i * d + j] = rows[i][j];
-  } else {
-    out = Float64Array.from(m as ArrayLike<number>);
-    if (out.length !== d * d) {
-      throw new SaddleError(
-        "dimension-mismatch",
-        `${name} must have ${d * d} row-major entries (${d} x ${d}), got ${out.length}`,
-        { parameter: name },
-      );
-    }
-  }
-  for (let i = 0; i < d * d; i++) {
-    if (!Number.isFinite(out[i])) {
-      throw new SaddleError(
-        "non-finite",
-        `${name} entry (${Math.floor(i / d)}, ${i % d}) is ${out[i]}`,
-        { parameter: name },
-      );
-    }
-  }
-  for (let i = 0; i < d; i++) {
-    for (let j = i + 1; j < d; j++) {
-      const a = out[i * d + j], b = out[j * d + i];
-      if (Math.abs(a - b) > 1e-10 * Math.max(Math.abs(a), Math.abs(b), 1e-300)) {
-        throw new SaddleError(
-          "invalid-argument",
-          `${name} is not symmetric: entry (${i}, ${j}) = ${a} but (${j}, ${i}) = ${b}`,
-          { parameter: name },
-        );
-      }
-      const s = 0.5 * (a + b);
-      out[i * d + j] = s;
-      out[j * d + i] = s;
-    }
-  }
-  return out;
-}
+export { type MatrixInput, toMatrix, toVector } from "../linalg/matrix_input.ts";
 
 /**
  * Check a query against a density of dimension `d`: same dimension, every value finite
@@ -118,17 +46,6 @@ export function checkSampleSize(n: number): void {
       parameter: "n",
     });
   }
-}
-
-/** `log Σ exp(v_i)` relative to the largest term; -Infinity for an empty or all -∞ input. */
-export function logSumExp(v: ArrayLike<number>, from = 0, to = v.length): number {
-  let m = -Infinity;
-  for (let i = from; i < to; i++) if (v[i] > m) m = v[i];
-  if (m === -Infinity) return -Infinity;
-  if (m === Infinity) return Infinity;
-  let s = 0;
-  for (let i = from; i < to; i++) s += Math.exp(v[i] - m);
-  return m + Math.log(s);
 }
 
 function formatValue(v: unknown, depth = 0): string {

@@ -20,7 +20,7 @@ import {
   toVector,
 } from "./_common.ts";
 import type { Density, DensityDescription } from "./types.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 
 /** A multivariate normal density with its parameters exposed for closed forms. */
 export interface GaussianDensity extends Density {

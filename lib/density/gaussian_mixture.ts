@@ -18,7 +18,7 @@ import {
 } from "./_common.ts";
 import { drawGaussianInto, gaussian, type GaussianDensity } from "./gaussian.ts";
 import type { Density, DensityDescription } from "./types.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 
 /** Parameters of {@linkcode gaussianMixture}. */
 export interface GaussianMixtureParameters {

@@ -4,8 +4,8 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { withDisplay } from "../estimate/display.ts";
-import { htmlTable, textTable } from "../estimate/format.ts";
+import { withDisplay } from "../display/display.ts";
+import { htmlTable, textTable } from "../display/table.ts";
 import { samples, type SamplesInput } from "../samples/samples.ts";
 import {
   fitGaussianMixture,

@@ -9,7 +9,7 @@ import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples, samples, type SamplesInput } from "../samples/samples.ts";
 import { checkQuery, checkSampleSize, densityBundle, description } from "./_common.ts";
 import type { Density, DensityDescription } from "./types.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 
 /** Options of {@linkcode fitHistogram}. */
 export interface HistogramOptions {

@@ -36,7 +36,7 @@ import {
   silvermanRuleOfThumb,
 } from "./bandwidth.ts";
 import type { Density, DensityDescription } from "./types.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 
 /** A named bandwidth rule. */
 export type BandwidthRule = "scott" | "silverman" | "cv" | "diffusion";

@@ -6,7 +6,7 @@
  * @module
  */
 export * from "./types.ts";
-export type { MatrixInput } from "./_common.ts";
+export type { MatrixInput } from "../linalg/matrix_input.ts";
 export type { EvalMethod } from "./_kde_eval.ts";
 export { gaussian, type GaussianDensity } from "./gaussian.ts";
 export * from "./gaussian_mixture.ts";

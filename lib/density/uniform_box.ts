@@ -8,7 +8,7 @@ import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples } from "../samples/samples.ts";
 import { checkQuery, checkSampleSize, densityBundle, description, toVector } from "./_common.ts";
 import type { Density, DensityDescription } from "./types.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../estimate/display.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 
 /** The uniform density on a box, exposing its corners. */
 export interface UniformBoxDensity extends Density {

@@ -6,7 +6,7 @@
  */
 import { SaddleError } from "../errors/saddle_error.ts";
 import { cholesky, choleskySolve } from "../linalg/cholesky.ts";
-import { sigmoid, softplus } from "./_logistic.ts";
+import { sigmoid, softplus } from "../math/log_space.ts";
 
 /** A fitted model: `eta = intercept + x · coef`. */
 export interface LogisticFit {

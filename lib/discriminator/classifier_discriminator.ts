@@ -5,15 +5,15 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { withDisplay } from "../estimate/display.ts";
+import { withDisplay } from "../display/display.ts";
 import type { Estimate } from "../estimate/estimate.ts";
-import { htmlTable, type TableCell, textTable } from "../estimate/format.ts";
+import { htmlTable, type TableCell, textTable } from "../display/table.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { assertSameDimension, type Samples } from "../samples/samples.ts";
 import { concatSamples, takeRows } from "../samples/transform.ts";
-import { twoSampleSum } from "../value/_two_sample.ts";
+import { twoSampleSum } from "../estimate/two_sample.ts";
 import { type FeatureKind, type FeatureMap, fitFeatures } from "./_features.ts";
-import { logSigmoid, sigmoid } from "./_logistic.ts";
+import { logSigmoid, sigmoid } from "../math/log_space.ts";
 import { fitLogistic, type LogisticFit, predictLogit } from "./_logistic_regression.ts";
 import type { Discriminator } from "./types.ts";
 

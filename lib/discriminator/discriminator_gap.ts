@@ -7,14 +7,14 @@
 import type { Density } from "../density/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { bootstrap } from "../estimate/bootstrap.ts";
-import { withDisplay } from "../estimate/display.ts";
+import { withDisplay } from "../display/display.ts";
 import { type Estimate, meanEstimate } from "../estimate/estimate.ts";
-import { htmlTable, type TableCell, textTable } from "../estimate/format.ts";
+import { htmlTable, type TableCell, textTable } from "../display/table.ts";
 import type { RandomSource } from "../random/rng.ts";
 import { assertSameDimension, type Samples } from "../samples/samples.ts";
-import { twoSampleSum } from "../value/_two_sample.ts";
-import { OUTPUT_EPSILON, type OutputScale, outputsToLogits } from "../value/value_function.ts";
-import { logSigmoid, sigmoid } from "./_logistic.ts";
+import { twoSampleSum } from "../estimate/two_sample.ts";
+import { OUTPUT_EPSILON, type OutputScale, outputsToLogits } from "./output_scale.ts";
+import { logSigmoid, sigmoid } from "../math/log_space.ts";
 import { optimalDiscriminator } from "./optimal_discriminator.ts";
 import type { Discriminator } from "./types.ts";
 

@@ -9,9 +9,9 @@ export * from "./optimal_discriminator.ts";
 export * from "./pointwise_objective.ts";
 export * from "./classifier_discriminator.ts";
 export * from "./discriminator_gap.ts";
+export * from "./output_scale.ts";
 // Types of other folders that this folder's API mentions, re-exported so the module documents alone.
 export type { RandomSource, Rng } from "../random/rng.ts";
 export type { SampleRecord, Samples, SamplesInput } from "../samples/samples.ts";
 export type { Density, DensityDescription } from "../density/types.ts";
 export type { Estimate, EstimateUnit } from "../estimate/estimate.ts";
-export type { OutputScale } from "../value/value_function.ts";

@@ -5,10 +5,10 @@
  */
 import type { Density } from "../density/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
-import { withDisplay } from "../estimate/display.ts";
-import { escapeHtml } from "../estimate/format.ts";
+import { withDisplay } from "../display/display.ts";
+import { escapeHtml } from "../display/table.ts";
 import { assertSameDimension, type Samples } from "../samples/samples.ts";
-import { sigmoid } from "./_logistic.ts";
+import { sigmoid } from "../math/log_space.ts";
 import type { Discriminator } from "./types.ts";
 
 /**

@@ -5,12 +5,10 @@
  *
  * @module
  */
-import type { Density } from "../density/types.ts";
 import type { BootstrapEstimate } from "../estimate/bootstrap.ts";
 import type { Estimate } from "../estimate/estimate.ts";
-import { withHidden } from "../estimate/_hidden.ts";
-import { escapeHtml, htmlTable, textTable } from "../estimate/format.ts";
-import type { RandomSource } from "../random/rng.ts";
+import { withHidden } from "../estimate/hidden.ts";
+import { escapeHtml, htmlTable, textTable } from "../display/table.ts";
 import type { Samples, SamplesInput } from "../samples/samples.ts";
 import {
   fitBoth,
@@ -19,28 +17,17 @@ import {
   refitEstimate,
   refitIntegration,
   refitNotes,
+  type RefitOptions,
   runReplicates,
-} from "./_refit_bootstrap.ts";
-import { fDivergence, type FDivergenceOptions } from "./f_divergence.ts";
-import { type FDivergenceName, type FDivergenceSpec, fDivergenceSpec } from "./f_divergences.ts";
+} from "./refit_bootstrap.ts";
 
-/** Options of the refit bootstrap shared by the sample-based estimators. */
-export interface RefitOptions {
-  /**
-   * Fitter from samples to a density, called on each side and on every resample
-   * (default: a Gaussian KDE with Scott's rule, `fitKde(s, { bandwidth: "scott" })`).
-   */
-  fit?: (s: Samples) => Density;
-  /** Refit bootstrap replicates (default 200). */
-  replicates?: number;
-  /**
-   * Seed of the resampling and of each replicate's integration draws; the plug-in uses it
-   * for its own integration draws (default 0). The same seed gives the same bits.
-   */
-  seed?: RandomSource;
-  /** Confidence level of the percentile intervals (default 0.95). */
-  level?: number;
-}
+export type { RefitOptions };
+import { fDivergence, type FDivergenceOptions } from "./f_divergence.ts";
+import {
+  type FDivergenceName,
+  type FDivergenceSpec,
+  fDivergenceSpec,
+} from "./f_divergence_table.ts";
 
 /**
  * Options of {@linkcode divergenceFromSamples}: the integration options of

@@ -18,14 +18,14 @@ import {
   type IntegrationOptions,
   logRatios,
   resolveMethod,
-} from "./_integrate.ts";
-import { logBase, rangeNote, scaleEstimate, unitOf } from "./_units.ts";
+} from "./integration.ts";
+import { logBase, rangeNote, scaleEstimate, unitOf } from "./units.ts";
 import {
   type FDivergenceName,
   type FDivergenceSpec,
   fDivergenceSpec,
   mixtureWeightOf,
-} from "./f_divergences.ts";
+} from "./f_divergence_table.ts";
 
 /** Options of {@linkcode fDivergence}. */
 export interface FDivergenceOptions extends IntegrationOptions {

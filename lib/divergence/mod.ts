@@ -4,7 +4,7 @@
  *
  * @module
  */
-export * from "./f_divergences.ts";
+export * from "./f_divergence_table.ts";
 export * from "./f_divergence.ts";
 export * from "./gaussian_closed_forms.ts";
 export * from "./discrete.ts";

@@ -4,7 +4,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { withHidden } from "./_hidden.ts";
+import { withHidden } from "./hidden.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { type Estimate, type EstimateUnit, makeEstimate, meanVariance } from "./estimate.ts";
 

@@ -3,9 +3,9 @@
  *
  * @module
  */
+export * from "./types.ts";
 export * from "./estimate.ts";
 export * from "./bootstrap.ts";
 export * from "./format.ts";
-export * from "./display.ts";
 // Types of other folders that this folder's API mentions, re-exported so the module documents alone.
 export type { RandomSource, Rng } from "../random/rng.ts";

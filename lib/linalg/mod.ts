@@ -7,3 +7,4 @@
 export * from "./cholesky.ts";
 export * from "./eigen.ts";
 export * from "./moments.ts";
+export * from "./matrix_input.ts";

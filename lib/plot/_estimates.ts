@@ -3,10 +3,9 @@
  *
  * @module
  */
-import type { Estimate } from "../estimate/estimate.ts";
+import type { EstimateOrNumber } from "./input_types.ts";
 
-/** An Estimate, or a plain number (exact, no interval). */
-export type EstimateOrNumber = Estimate | number;
+export type { EstimateOrNumber };
 
 /** Value, interval (or none) and unit of an Estimate or number. */
 export function readEstimate(e: EstimateOrNumber): {

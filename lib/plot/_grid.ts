@@ -8,9 +8,9 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import { quantileSorted } from "../estimate/bootstrap.ts";
 import { toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples } from "../samples/samples.ts";
+import type { AxisRange } from "./input_types.ts";
 
-/** A closed interval `[lo, hi]`. */
-export type AxisRange = readonly [number, number];
+export type { AxisRange };
 
 /** Points along one axis: `m` values from lo to hi inclusive. */
 export function linspace(lo: number, hi: number, m: number): Float64Array {

@@ -12,7 +12,7 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import type { RandomSource } from "../random/rng.ts";
 import type { Samples } from "../samples/samples.ts";
 import { dotStyle } from "./axes.ts";
-import { columnLabel, type ColumnLabelOptions } from "./_columns.ts";
+import { columnLabel, type ColumnLabelOptions } from "./_axis_labels.ts";
 import { composeFigure } from "./compose.ts";
 import type { Figure } from "./figure.ts";
 import { type AxisRange, grid2d, plottingRange, requireDimension, subsampleRows } from "./_grid.ts";

@@ -6,7 +6,7 @@
  */
 import type { PlotLayerOptions, PlotMark } from "./plot_types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
-import { withDisplay } from "../estimate/display.ts";
+import { withDisplay } from "../display/display.ts";
 import { svgToPng } from "./_png.ts";
 
 /** What a {@linkcode Figure} knows besides its SVG. */
@@ -36,7 +36,7 @@ export interface PngOptions {
  * @example
  * ```ts
  * import { Figure } from "./figure.ts";
- * import { displayBundle } from "../estimate/display.ts";
+ * import { displayBundle } from "../display/display.ts";
  * import assert from "node:assert/strict";
  * const svg = '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10" viewBox="0 0 10 10"></svg>';
  * const f = new Figure(svg, { width: 10, height: 10, title: "empty" });

@@ -10,7 +10,7 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import type { RandomSource } from "../random/rng.ts";
 import type { Samples } from "../samples/samples.ts";
 import { axisLabel, dotStyle, lineStyle } from "./axes.ts";
-import { columnLabel, type ColumnLabelOptions } from "./_columns.ts";
+import { columnLabel, type ColumnLabelOptions } from "./_axis_labels.ts";
 import { composeFigure, type LegendItem, type PanelSpec } from "./compose.ts";
 import type { Figure } from "./figure.ts";
 import {

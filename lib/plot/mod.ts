@@ -70,9 +70,7 @@ export type { BootstrapEstimate } from "../estimate/bootstrap.ts";
 export type { Discriminator } from "../discriminator/types.ts";
 export type { DiscriminatorGap, ReliabilityBin } from "../discriminator/discriminator_gap.ts";
 export type { GeneratorObjectives } from "../value/generator_objectives.ts";
-export type { AxisRange } from "./_grid.ts";
-export type { EstimateOrNumber } from "./_estimates.ts";
-export type { ColumnLabelOptions } from "./_columns.ts";
+export type { AxisRange, ColumnLabelOptions, EstimateOrNumber } from "./input_types.ts";
 export {
   composeFigure,
   type FrameSpec,

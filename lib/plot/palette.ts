@@ -5,8 +5,8 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { type MimeBundle, withDisplay } from "../estimate/display.ts";
-import { escapeHtml, textTable } from "../estimate/format.ts";
+import { type MimeBundle, withDisplay } from "../display/display.ts";
+import { escapeHtml, textTable } from "../display/table.ts";
 
 /** What a drawn element stands for. */
 export type Role = "real" | "generated" | "optimal" | "discriminator" | "reference";

@@ -5,9 +5,9 @@
  *
  * @module
  */
-import { withDisplay } from "../estimate/display.ts";
-import { htmlTable, textTable } from "../estimate/format.ts";
-import type { Samples } from "./samples.ts";
+import { withDisplay } from "../display/display.ts";
+import { htmlTable, textTable } from "../display/table.ts";
+import type { Samples } from "./types.ts";
 
 const HEAD_ROWS = 5;
 

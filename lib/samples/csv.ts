@@ -9,7 +9,7 @@
 import { dsvFormat } from "d3-dsv";
 import { SaddleError } from "../errors/saddle_error.ts";
 import type { Samples } from "./samples.ts";
-import { type ColumnSelection, fileLoc } from "./_columns.ts";
+import { type ColumnSelection, fileLoc } from "./column_selection.ts";
 import { lineOfRow } from "./_csv_lines.ts";
 import { readText } from "./_io.ts";
 import { makeSamples } from "./_make.ts";

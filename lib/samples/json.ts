@@ -6,7 +6,7 @@
  */
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type SampleRecord, type Samples, samples } from "./samples.ts";
-import { type ColumnSelection, fileLoc, nameAndSelect } from "./_columns.ts";
+import { type ColumnSelection, fileLoc, nameAndSelect } from "./column_selection.ts";
 import { readText } from "./_io.ts";
 
 /** Options of {@linkcode parseJson} and {@linkcode readJson}. */

@@ -11,6 +11,6 @@ export * from "./json.ts";
 export * from "./npy.ts";
 export * from "./npz.ts";
 export * from "./read.ts";
-export type { ColumnSelection } from "./_columns.ts";
+export type { ColumnSelection } from "./column_selection.ts";
 // Types of other folders that this folder's API mentions, re-exported so the module documents alone.
 export type { RandomSource, Rng } from "../random/rng.ts";

@@ -6,7 +6,7 @@
  */
 import { SaddleError } from "../errors/saddle_error.ts";
 import { fromBuffer, type Samples } from "./samples.ts";
-import { type ColumnSelection, fileLoc, nameAndSelect } from "./_columns.ts";
+import { type ColumnSelection, fileLoc, nameAndSelect } from "./column_selection.ts";
 import { fileError, readFull, writeAll } from "./_io.ts";
 import {
   decodeNpyChunk,
@@ -15,9 +15,9 @@ import {
   type NpyHeader,
   npyHeaderSize,
   parseNpyHeader,
-} from "./_npy_format.ts";
+} from "./npy_format.ts";
 
-export type { NpyDtype, NpyHeader } from "./_npy_format.ts";
+export type { NpyDtype, NpyHeader } from "./npy_format.ts";
 
 /** Options of {@linkcode parseNpy} and {@linkcode readNpy}. */
 export interface NpyOptions {

@@ -9,7 +9,7 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import type { Samples } from "./samples.ts";
 import { type NpyOptions, parseNpy } from "./npy.ts";
 import { readBytes } from "./_io.ts";
-import { fileLoc } from "./_columns.ts";
+import { fileLoc } from "./column_selection.ts";
 
 /** Options of {@linkcode parseNpz} and {@linkcode readNpz}. */
 export interface NpzOptions extends NpyOptions {

@@ -4,11 +4,15 @@
  *
  * @module
  */
-import { logSigmoid, sigmoid } from "../discriminator/_logistic.ts";
-import { type MimeBundle, withDisplay } from "../estimate/display.ts";
+import { logSigmoid, sigmoid } from "../math/log_space.ts";
+import { type MimeBundle, withDisplay } from "../display/display.ts";
 import { type Estimate, meanEstimate } from "../estimate/estimate.ts";
-import { htmlTable, textTable } from "../estimate/format.ts";
-import { OUTPUT_EPSILON, type OutputScale, outputsToLogits } from "./value_function.ts";
+import { htmlTable, textTable } from "../display/table.ts";
+import {
+  OUTPUT_EPSILON,
+  type OutputScale,
+  outputsToLogits,
+} from "../discriminator/output_scale.ts";
 
 /** Options of {@linkcode generatorObjectives}. */
 export interface GeneratorObjectivesOptions {

@@ -35,3 +35,4 @@ export type { Estimate, EstimateUnit } from "../estimate/estimate.ts";
 export type { Discriminator } from "../discriminator/types.ts";
 export type { IntegrationOptions } from "../divergence/integration_options.ts";
 export type { RefitOptions } from "../divergence/divergence_from_samples.ts";
+export type { OutputScale } from "../discriminator/output_scale.ts";

@@ -5,7 +5,7 @@
  * @module
  */
 import type { Density } from "../density/types.ts";
-import { logSigmoid, sigmoid } from "../discriminator/_logistic.ts";
+import { logSigmoid, sigmoid } from "../math/log_space.ts";
 import {
   combineMeans,
   drawBoth,
@@ -14,11 +14,11 @@ import {
   type IntegrationOptions,
   logRatios,
   resolveMethod,
-} from "../divergence/_integrate.ts";
-import { logBase, rangeNote, scaleEstimate, unitOf } from "../divergence/_units.ts";
-import { withDisplay } from "../estimate/display.ts";
+} from "../divergence/integration.ts";
+import { logBase, rangeNote, scaleEstimate, unitOf } from "../divergence/units.ts";
+import { withDisplay } from "../display/display.ts";
 import { type Estimate, exact, makeEstimate } from "../estimate/estimate.ts";
-import { htmlTable, textTable } from "../estimate/format.ts";
+import { htmlTable, textTable } from "../display/table.ts";
 import { assertSameDimension } from "../samples/samples.ts";
 import { valueFunction } from "./value_function.ts";
 

@@ -12,12 +12,12 @@ import {
   refitIntegration,
   refitNotes,
   runReplicates,
-} from "../divergence/_refit_bootstrap.ts";
+} from "../divergence/refit_bootstrap.ts";
 import type { RefitOptions } from "../divergence/divergence_from_samples.ts";
 import type { BootstrapEstimate } from "../estimate/bootstrap.ts";
-import { withDisplay } from "../estimate/display.ts";
+import { withDisplay } from "../display/display.ts";
 import type { Estimate } from "../estimate/estimate.ts";
-import { escapeHtml, htmlTable, type TableCell, textTable } from "../estimate/format.ts";
+import { escapeHtml, htmlTable, type TableCell, textTable } from "../display/table.ts";
 import type { Samples, SamplesInput } from "../samples/samples.ts";
 import {
   type DecompositionOptions,

@@ -4,32 +4,19 @@
  *
  * @module
  */
-import { logSigmoid } from "../discriminator/_logistic.ts";
+import { logSigmoid } from "../math/log_space.ts";
 import type { OptimalDiscriminator } from "../discriminator/optimal_discriminator.ts";
 import type { Discriminator } from "../discriminator/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import type { Estimate } from "../estimate/estimate.ts";
 import type { RandomSource } from "../random/rng.ts";
 import { assertSameDimension, type Samples } from "../samples/samples.ts";
-import { twoSampleSum } from "./_two_sample.ts";
-
-/** Scale of a discriminator's outputs: probabilities in [0, 1] or logits in R. */
-export type OutputScale = "prob" | "logit";
-
-/**
- * Probabilities of exactly 0 or 1 are moved to `OUTPUT_EPSILON` and `1 - OUTPUT_EPSILON`
- * before taking logs (1e-7, the usual float32 guard of deep-learning frameworks; common
- * practice, no source). Logits need no clipping.
- *
- * @example
- * ```ts
- * import { OUTPUT_EPSILON, outputsToLogits } from "./value_function.ts";
- * import assert from "node:assert/strict";
- * const { logit } = outputsToLogits([1], "prob", "dReal");
- * assert.equal(logit[0], Math.log1p(-OUTPUT_EPSILON) - Math.log(OUTPUT_EPSILON));
- * ```
- */
-export const OUTPUT_EPSILON = 1e-7;
+import { twoSampleSum } from "../estimate/two_sample.ts";
+import {
+  OUTPUT_EPSILON,
+  type OutputScale,
+  outputsToLogits,
+} from "../discriminator/output_scale.ts";
 
 /** Statistical options shared by the value-function estimators. */
 export interface ValueOptions {
@@ -80,75 +67,6 @@ export interface ValueTerms {
   readonly logitFake: Float64Array;
   /** Clipping counts and other caveats. */
   readonly notes: readonly string[];
-}
-
-/**
- * Validate outputs and return their logits, clipping probabilities of exactly 0 or 1 at
- * `epsilon`; `name` is used in error messages. Returns the number clipped. Probabilities
- * outside [0, 1] and NaN throw; logits of ±Infinity are kept.
- *
- * @example
- * ```ts
- * import { outputsToLogits } from "./value_function.ts";
- * import assert from "node:assert/strict";
- * const { logit, clipped } = outputsToLogits([0.5, 1], "prob", "dReal");
- * assert.equal(logit[0], 0);
- * assert.equal(clipped, 1);
- * assert.throws(() => outputsToLogits([2], "prob", "dReal"), /outside \[0, 1\]/);
- * ```
- */
-export function outputsToLogits(
-  values: ArrayLike<number>,
-  scale: OutputScale,
-  name: string,
-  epsilon: number = OUTPUT_EPSILON,
-): { logit: Float64Array; clipped: number } {
-  if (scale !== "prob" && scale !== "logit") {
-    throw new SaddleError("invalid-argument", `scale must be "prob" or "logit", got ${scale}`, {
-      parameter: "scale",
-    });
-  }
-  if (!(epsilon > 0 && epsilon < 0.5)) {
-    throw new SaddleError("invalid-argument", `epsilon must be in (0, 0.5), got ${epsilon}`, {
-      parameter: "epsilon",
-    });
-  }
-  if (values.length === 0) {
-    throw new SaddleError("empty", `${name} is empty: give the outputs on at least one point`, {
-      parameter: name,
-    });
-  }
-  const out = new Float64Array(values.length);
-  let clipped = 0;
-  const lo = Math.log(epsilon) - Math.log1p(-epsilon);
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (Number.isNaN(v)) {
-      throw new SaddleError("non-finite", `${name} is NaN; drop or fix that output`, {
-        parameter: name,
-        row: i,
-      });
-    }
-    if (scale === "logit") {
-      out[i] = v;
-      continue;
-    }
-    if (!(v >= 0 && v <= 1)) {
-      throw new SaddleError(
-        "invalid-argument",
-        `${name} is ${v}, outside [0, 1]; pass scale: "logit" if these are logits`,
-        { parameter: name, row: i },
-      );
-    }
-    if (v === 0) {
-      out[i] = lo;
-      clipped++;
-    } else if (v === 1) {
-      out[i] = -lo;
-      clipped++;
-    } else out[i] = Math.log(v) - Math.log1p(-v);
-  }
-  return { logit: out, clipped };
 }
 
 function discriminatorLogits(

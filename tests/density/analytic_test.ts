@@ -4,7 +4,7 @@ import fc from "fast-check";
 import { gaussian } from "../../lib/density/gaussian.ts";
 import { gaussianMixture } from "../../lib/density/gaussian_mixture.ts";
 import { uniformBox } from "../../lib/density/uniform_box.ts";
-import { displayBundle } from "../../lib/estimate/display.ts";
+import { displayBundle } from "../../lib/display/display.ts";
 import { SaddleError } from "../../lib/errors/saddle_error.ts";
 import { Rng } from "../../lib/random/rng.ts";
 import { fromBuffer, samples } from "../../lib/samples/samples.ts";

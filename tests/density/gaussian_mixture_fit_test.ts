@@ -2,7 +2,7 @@ import assert from "node:assert/strict";
 import { gaussianMixture } from "../../lib/density/gaussian_mixture.ts";
 import { fitGaussianMixture } from "../../lib/density/gaussian_mixture_fit.ts";
 import { selectGaussianMixture } from "../../lib/density/gaussian_mixture_select.ts";
-import { displayBundle } from "../../lib/estimate/display.ts";
+import { displayBundle } from "../../lib/display/display.ts";
 import { SaddleError } from "../../lib/errors/saddle_error.ts";
 import { Rng } from "../../lib/random/rng.ts";
 import { samples } from "../../lib/samples/samples.ts";

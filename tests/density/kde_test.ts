@@ -5,7 +5,7 @@ import { silvermanFactor } from "../../lib/density/bandwidth.ts";
 import { Rng } from "../../lib/random/rng.ts";
 import { fromBuffer, samples } from "../../lib/samples/samples.ts";
 import { SaddleError } from "../../lib/errors/saddle_error.ts";
-import { displayBundle } from "../../lib/estimate/display.ts";
+import { displayBundle } from "../../lib/display/display.ts";
 import { assertClose, assertWithinSe, maxRelError } from "../_assert.ts";
 import { ignoreWithoutPython, runReference } from "../_reference.ts";
 import { shiftedNormalData as data } from "../_data.ts";

@@ -13,7 +13,7 @@ import {
   discriminatorGap,
   optimalDiscriminator,
 } from "../../lib/discriminator/mod.ts";
-import { displayBundle } from "../../lib/estimate/mod.ts";
+import { displayBundle } from "../../lib/display/mod.ts";
 import { samples } from "../../lib/samples/mod.ts";
 
 const pData = gaussian(0, 1), pModel = gaussian(1, 1);

@@ -13,7 +13,7 @@ import {
   type SampleDivergence,
 } from "../../lib/divergence/mod.ts";
 import { SaddleError } from "../../lib/errors/mod.ts";
-import { displayBundle } from "../../lib/estimate/mod.ts";
+import { displayBundle } from "../../lib/display/mod.ts";
 import { columnMeans, covariance } from "../../lib/linalg/mod.ts";
 import { type Samples, samples } from "../../lib/samples/mod.ts";
 import { decompositionFromSamples } from "../../lib/value/mod.ts";

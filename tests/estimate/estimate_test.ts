@@ -7,15 +7,9 @@ import {
   meanVariance,
   normalCritical,
 } from "../../lib/estimate/estimate.ts";
-import {
-  escapeHtml,
-  estimateHtml,
-  formatEstimate,
-  formatNumber,
-  htmlTable,
-  textTable,
-} from "../../lib/estimate/format.ts";
-import { displayBundle } from "../../lib/estimate/display.ts";
+import { estimateHtml, formatEstimate } from "../../lib/estimate/format.ts";
+import { escapeHtml, formatNumber, htmlTable, textTable } from "../../lib/display/table.ts";
+import { displayBundle } from "../../lib/display/display.ts";
 import { SaddleError } from "../../lib/errors/saddle_error.ts";
 import { assertClose } from "../_assert.ts";
 

@@ -10,7 +10,7 @@
  */
 import assert from "node:assert/strict";
 import * as sk from "../../mod.ts";
-import { assessTrained, type DemoData, loadDemo } from "../../scripts/_demo.ts";
+import { assessTrained, type DemoData, loadDemo } from "../_demo.ts";
 import {
   assertJupyter,
   ignoreWithoutJupyter,

@@ -8,7 +8,7 @@ import { unzlibSync } from "fflate";
 import { gaussian } from "../../lib/density/gaussian.ts";
 import { makeEstimate } from "../../lib/estimate/estimate.ts";
 import { bootstrap } from "../../lib/estimate/bootstrap.ts";
-import { displayBundle } from "../../lib/estimate/display.ts";
+import { displayBundle } from "../../lib/display/display.ts";
 import { SaddleError } from "../../lib/errors/saddle_error.ts";
 import { samples } from "../../lib/samples/samples.ts";
 import {

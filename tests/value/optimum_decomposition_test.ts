@@ -7,7 +7,8 @@ import { assertClose, assertWithinSe } from "../_assert.ts";
 import { ignoreWithoutPython, runReference } from "../_reference.ts";
 import { gaussian, gaussianMixture, uniformBox } from "../../lib/density/mod.ts";
 import { fDivergence } from "../../lib/divergence/mod.ts";
-import { displayBundle, type Estimate } from "../../lib/estimate/mod.ts";
+import { displayBundle } from "../../lib/display/mod.ts";
+import type { Estimate } from "../../lib/estimate/mod.ts";
 import { optimumDecomposition } from "../../lib/value/mod.ts";
 
 const TERMS = ["value", "jsd", "klRealMix", "klFakeMix"] as const;

@@ -9,7 +9,7 @@ import { assertClose } from "../_assert.ts";
 import { ignoreWithoutPython, runReference } from "../_reference.ts";
 import { fitKde, gaussian } from "../../lib/density/mod.ts";
 import { SaddleError } from "../../lib/errors/mod.ts";
-import { displayBundle } from "../../lib/estimate/mod.ts";
+import { displayBundle } from "../../lib/display/mod.ts";
 import { columnMeans, covariance } from "../../lib/linalg/mod.ts";
 import { plotBootstrap, plotDecomposition } from "../../lib/plot/mod.ts";
 import { type Samples, samples } from "../../lib/samples/mod.ts";

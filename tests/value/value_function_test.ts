@@ -9,7 +9,8 @@ import { optimalDiscriminator } from "../../lib/discriminator/mod.ts";
 import { SaddleError } from "../../lib/errors/mod.ts";
 import { samples } from "../../lib/samples/mod.ts";
 import { Rng } from "../../lib/random/mod.ts";
-import { generatorObjectives, OUTPUT_EPSILON, valueFunction } from "../../lib/value/mod.ts";
+import { generatorObjectives, valueFunction } from "../../lib/value/mod.ts";
+import { OUTPUT_EPSILON } from "../../lib/discriminator/mod.ts";
 
 Deno.test("valueFunction: -ln 4 exactly at D = 1/2 (Goodfellow et al. 2014, Thm. 1)", () => {
   const v = valueFunction({

@@ -6,14 +6,9 @@
  */
 import type { Samples } from "../samples/samples.ts";
 import { axisLabel } from "./axes.ts";
+import type { ColumnLabelOptions } from "./input_types.ts";
 
-/** Labels and units of the two axes of a 2-D figure. */
-export interface ColumnLabelOptions {
-  /** Names of the coordinates (default: the samples' column names, or "x1", "x2"). */
-  labels?: readonly string[];
-  /** Units of the coordinates, e.g. ["m/s", "mm/s"]. */
-  units?: readonly (string | undefined)[];
-}
+export type { ColumnLabelOptions };
 
 /** The axis label of coordinate `j`. */
 export function columnLabel(

@@ -4,7 +4,7 @@
  *
  * @module
  */
-import { JUPYTER_DISPLAY, type MimeBundle } from "./display.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 
 /**
  * A frozen copy of `obj` with extra non-enumerable properties (and optionally a new rich

@@ -10,7 +10,7 @@
  * @module
  */
 import type { Density } from "../density/types.ts";
-import { logAddExp } from "../discriminator/_logistic.ts";
+import { logAddExp } from "../math/log_space.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type Estimate, makeEstimate, meanVariance, normalCritical } from "../estimate/estimate.ts";
 import type { EstimateUnit } from "../estimate/estimate.ts";

@@ -4,14 +4,9 @@
  *
  * @module
  */
-import { withHidden } from "../estimate/_hidden.ts";
-import { bootstrap } from "../estimate/bootstrap.ts";
-import {
-  type Estimate,
-  type EstimateUnit,
-  makeEstimate,
-  meanVariance,
-} from "../estimate/estimate.ts";
+import { withHidden } from "./hidden.ts";
+import { bootstrap } from "./bootstrap.ts";
+import { type Estimate, type EstimateUnit, makeEstimate, meanVariance } from "./estimate.ts";
 import type { RandomSource } from "../random/rng.ts";
 
 /** Options of {@linkcode twoSampleSum}. */

@@ -8,10 +8,10 @@
  *
  * @module
  */
-import { logSigmoid, sigmoid, softplus } from "../discriminator/_logistic.ts";
+import { logSigmoid, sigmoid, softplus } from "../math/log_space.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
-import { type MimeBundle, withDisplay } from "../estimate/display.ts";
-import { formatNumber, htmlTable, textTable } from "../estimate/format.ts";
+import { type MimeBundle, withDisplay } from "../display/display.ts";
+import { formatNumber, htmlTable, textTable } from "../display/table.ts";
 
 /** One row of the f-divergence table. All functions are written for stable evaluation. */
 export interface FDivergenceSpec {
@@ -249,7 +249,7 @@ const totalVariation = spec({
  *
  * @example The KL row
  * ```ts
- * import { F_DIVERGENCES } from "./f_divergences.ts";
+ * import { F_DIVERGENCES } from "./f_divergence_table.ts";
  * import assert from "node:assert/strict";
  * const kl = F_DIVERGENCES.kl;
  * assert.equal(kl.f(1), 0);
@@ -311,7 +311,7 @@ export type FDivergenceName = keyof typeof F_DIVERGENCES | "alpha";
  *
  * @example
  * ```ts
- * import { alphaDivergence } from "./f_divergences.ts";
+ * import { alphaDivergence } from "./f_divergence_table.ts";
  * import assert from "node:assert/strict";
  * const a2 = alphaDivergence(2);
  * assert.ok(Math.abs(a2.f(3) - 2) < 1e-14); // ½ (3 - 1)²
@@ -365,7 +365,7 @@ export function alphaDivergence(alpha: number): FDivergenceSpec {
  *
  * @example
  * ```ts
- * import { fDivergenceSpec } from "./f_divergences.ts";
+ * import { fDivergenceSpec } from "./f_divergence_table.ts";
  * import assert from "node:assert/strict";
  * assert.equal(fDivergenceSpec("pearson").f(3), 4);
  * assert.throws(() => fDivergenceSpec("chi"), /unknown f-divergence "chi"/);
@@ -405,7 +405,7 @@ export function fDivergenceSpec(
  *
  * @example Disjoint supports: the JSD integrand is ln 2 on both sides
  * ```ts
- * import { F_DIVERGENCES, mixtureWeightOf } from "./f_divergences.ts";
+ * import { F_DIVERGENCES, mixtureWeightOf } from "./f_divergence_table.ts";
  * import assert from "node:assert/strict";
  * const w = mixtureWeightOf(F_DIVERGENCES["jensen-shannon"]);
  * assert.equal(w(Infinity), Math.LN2);

@@ -10,7 +10,7 @@ import { fitKde } from "../density/kde.ts";
 import type { Density } from "../density/types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { type BootstrapEstimate, percentileInterval } from "../estimate/bootstrap.ts";
-import { withHidden } from "../estimate/_hidden.ts";
+import { withHidden } from "../estimate/hidden.ts";
 import {
   type Estimate,
   type EstimateUnit,
@@ -20,8 +20,25 @@ import {
 import { type RandomSource, type Rng, toRng } from "../random/rng.ts";
 import { type Samples, samples, type SamplesInput } from "../samples/samples.ts";
 import { takeRows } from "../samples/transform.ts";
-import type { RefitOptions } from "./divergence_from_samples.ts";
 import type { IntegrationOptions } from "./integration_options.ts";
+
+/** Options of the refit bootstrap shared by the sample-based estimators. */
+export interface RefitOptions {
+  /**
+   * Fitter from samples to a density, called on each side and on every resample
+   * (default: a Gaussian KDE with Scott's rule, `fitKde(s, { bandwidth: "scott" })`).
+   */
+  fit?: (s: Samples) => Density;
+  /** Refit bootstrap replicates (default 200). */
+  replicates?: number;
+  /**
+   * Seed of the resampling and of each replicate's integration draws; the plug-in uses it
+   * for its own integration draws (default 0). The same seed gives the same bits.
+   */
+  seed?: RandomSource;
+  /** Confidence level of the percentile intervals (default 0.95). */
+  level?: number;
+}
 
 /** Method name of every estimate made here. */
 export const REFIT_METHOD = "bootstrap-percentile (refit)";
