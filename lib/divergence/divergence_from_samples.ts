@@ -41,11 +41,17 @@ export interface SampleDivergenceOptions extends FDivergenceOptions, RefitOption
  * A divergence from samples: the plug-in value between the two fits, with the standard
  * error and percentile interval of the refit bootstrap.
  */
-export interface SampleDivergence extends BootstrapEstimate {
+export interface SampleDivergence extends BootstrapEstimate, RefitDetail {}
+
+/**
+ * The detail a sample divergence carries beside its JSON fields (non-enumerable). Declared
+ * as accessors so that a spread copy, which loses them, loses them in its type too.
+ */
+export declare class RefitDetail {
   /** The plug-in divergence between the fits, with its numerical error bar only (hidden). */
-  readonly plugIn: Estimate;
+  get plugIn(): Estimate;
   /** Replicates whose fit or recomputation failed (hidden). */
-  readonly failed: number;
+  get failed(): number;
 }
 
 /**

@@ -168,22 +168,23 @@ export function fitBoth(setup: RefitSetup, real: Samples, fake: Samples): [Densi
 
 /**
  * `setup.fit(x)`, with a SaddleError from the fitter re-raised as one that names the side
- * (parameter "real" or "fake") and keeps the fitter's row, column and code.
+ * (parameter "real" or "fake"), keeps the fitter's row, column and code, and carries the
+ * fitter's error as its `cause`.
  */
 function fitSide(setup: RefitSetup, x: Samples, side: "real" | "fake"): Density {
   try {
     return setup.fit(x);
   } catch (e) {
     if (!(e instanceof SaddleError)) throw e;
-    // The message starts with the formatted location of the fitter's error: drop it, the
-    // new error formats its own (with the side as the parameter).
-    const where = new SaddleError(e.code, "", e.location).message;
-    const text = where && e.message.startsWith(where) ? e.message.slice(where.length) : e.message;
+    // The new error formats its own location (with the side as the parameter) before the
+    // fitter's detail; the fitter's error stays reachable as the cause.
     const { parameter: _parameter, ...rest } = e.location;
-    throw new SaddleError(e.code, `fitting the ${side} samples: ${text}`, {
-      ...rest,
-      parameter: side,
-    });
+    throw new SaddleError(
+      e.code,
+      `fitting the ${side} samples: ${e.detail}`,
+      { ...rest, parameter: side },
+      { cause: e },
+    );
   }
 }
 

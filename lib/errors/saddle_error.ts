@@ -56,8 +56,22 @@ export interface SaddleErrorLocation {
  *
  * const err = new SaddleError("non-finite", "value is NaN", { row: 3, column: 1 });
  * assert.equal(err.code, "non-finite");
- * assert.match(err.message, /row 3, column 1/);
+ * assert.equal(err.message, "row 3, column 1: value is NaN");
+ * assert.equal(err.detail, "value is NaN");
  * assert.ok(err instanceof Error);
+ * ```
+ *
+ * @example Wrapping an error as the cause of another
+ * ```ts
+ * import { SaddleError } from "./saddle_error.ts";
+ * import assert from "node:assert/strict";
+ *
+ * const inner = new SaddleError("singular", "covariance is singular", { column: 0 });
+ * const outer = new SaddleError("singular", `fitting the real samples: ${inner.detail}`, {
+ *   parameter: "real",
+ * }, { cause: inner });
+ * assert.equal(outer.cause, inner);
+ * assert.equal(outer.message, 'parameter "real": fitting the real samples: covariance is singular');
  * ```
  */
 export class SaddleError extends Error {
@@ -65,20 +79,29 @@ export class SaddleError extends Error {
   readonly code: SaddleErrorCode;
   /** Where the problem is, when known. */
   readonly location: SaddleErrorLocation;
+  /** The message as given, without the location prefix. */
+  readonly detail: string;
 
   /**
-   * Make an error; the message is prefixed with the formatted location.
+   * Make an error; the message is the formatted location, a colon, then `message`.
    *
    * @param code Machine-readable reason.
-   * @param message What is wrong and what would fix it; the location is appended.
+   * @param message What is wrong and what would fix it; the location is put before it.
    * @param location Where the problem was found.
+   * @param options `cause`: the error this one wraps (ES2022 `ErrorOptions`).
    */
-  constructor(code: SaddleErrorCode, message: string, location: SaddleErrorLocation = {}) {
+  constructor(
+    code: SaddleErrorCode,
+    message: string,
+    location: SaddleErrorLocation = {},
+    options?: ErrorOptions,
+  ) {
     const where = formatLocation(location);
-    super(where ? `${where}: ${message}` : message);
+    super(where ? `${where}: ${message}` : message, options);
     this.name = "SaddleError";
     this.code = code;
     this.location = location;
+    this.detail = message;
   }
 }
 

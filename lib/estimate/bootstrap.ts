@@ -20,11 +20,21 @@ export interface BootstrapOptions {
   unit?: EstimateUnit;
 }
 
-/** An {@linkcode Estimate} from the bootstrap, with the replicate values (non-enumerable). */
-export interface BootstrapEstimate extends Estimate {
-  /** The statistic on each bootstrap resample, in draw order. */
-  readonly replicates: Float64Array;
+/**
+ * The replicate values a bootstrap estimate carries beside its JSON fields (non-enumerable).
+ * Declared as an accessor so that a spread copy, which loses them, loses them in its type
+ * too: `const c: BootstrapEstimate = { ...e }` does not compile.
+ */
+export declare class BootstrapReplicates {
+  /** The statistic on each bootstrap resample, in draw order (hidden: not in JSON). */
+  get replicates(): Float64Array;
 }
+
+/**
+ * An {@linkcode Estimate} from the bootstrap, with the replicate values (non-enumerable:
+ * read them from the estimate itself, not from a spread or JSON copy).
+ */
+export interface BootstrapEstimate extends Estimate, BootstrapReplicates {}
 
 /**
  * Bootstrap a statistic of one or more independent samples.

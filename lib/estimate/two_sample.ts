@@ -28,7 +28,21 @@ export interface TwoSampleSumOptions {
 /**
  * `w_a mean(a) + w_b mean(b)` for independent samples `a` and `b`: se² = w_a² s_a²/n_a +
  * w_b² s_b²/n_b, CI from a percentile bootstrap that resamples each side on its own.
- * When a term is infinite the value is that infinity, without se or interval.
+ * When a term is infinite the value is that infinity, without se or interval. The
+ * bootstrap replicates stay attached to the result (non-enumerable `replicates`, as on a
+ * `BootstrapEstimate`).
+ *
+ * References: Efron & Tibshirani 1993, An Introduction to the Bootstrap, ch. 6 and 13.
+ *
+ * @example The difference of two means
+ * ```ts
+ * import { twoSampleSum } from "./two_sample.ts";
+ * import assert from "node:assert/strict";
+ * const a = Float64Array.from([1, 2, 3, 4]), b = Float64Array.from([0, 1, 0, 1]);
+ * const e = twoSampleSum(a, b, { weights: [1, -1], seed: 1, replicates: 200 });
+ * assert.equal(e.value, 2);
+ * assert.ok(Math.abs(e.se! - Math.sqrt((5 / 3) / 4 + (1 / 3) / 4)) < 1e-12); // unbiased variances
+ * ```
  */
 export function twoSampleSum(
   a: Float64Array,

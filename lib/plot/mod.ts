@@ -108,7 +108,6 @@ export {
   plotReliability,
   type ReliabilityPlotOptions,
   type ReliabilitySource,
-  wilsonInterval,
 } from "./reliability_plot.ts";
 export { type BootstrapPlotOptions, plotBootstrap } from "./bootstrap_plot.ts";
 export { type FitInput, type FitPlotOptions, plotFit } from "./fit_plot.ts";

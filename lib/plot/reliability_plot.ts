@@ -7,7 +7,7 @@
 import * as Plot from "@observablehq/plot";
 import type { DiscriminatorGap, ReliabilityBin } from "../discriminator/discriminator_gap.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
-import { normalCritical } from "../estimate/estimate.ts";
+import { wilsonInterval } from "../estimate/wilson.ts";
 import type { Estimate } from "../estimate/estimate.ts";
 import { levelText } from "./_estimates.ts";
 import { short } from "./_text.ts";
@@ -29,28 +29,6 @@ export interface ReliabilityPlotOptions {
   title?: string;
   /** Panel width in px (default 520). */
   width?: number;
-}
-
-/**
- * Wilson score interval of a proportion `p` observed on `n` trials.
- *
- * References: Wilson 1927, Probable inference, the law of succession, and statistical
- * inference (JASA).
- *
- * @example
- * ```ts
- * import { wilsonInterval } from "./reliability_plot.ts";
- * import assert from "node:assert/strict";
- * const [lo, hi] = wilsonInterval(0.5, 100, 0.95);
- * assert.ok(Math.abs(lo - 0.4038) < 1e-4 && Math.abs(hi - 0.5962) < 1e-4);
- * ```
- */
-export function wilsonInterval(p: number, n: number, level = 0.95): [number, number] {
-  if (!(n > 0) || !(p >= 0 && p <= 1)) return [NaN, NaN];
-  const z = normalCritical(level), z2 = z * z;
-  const centre = (p + z2 / (2 * n)) / (1 + z2 / n);
-  const half = (z / (1 + z2 / n)) * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
-  return [Math.max(0, centre - half), Math.min(1, centre + half)];
 }
 
 /**

@@ -47,10 +47,24 @@ const TERMS: readonly SampleDecompositionTerm[] = [
 ];
 
 /**
+ * The replicates a sample decomposition carries beside its JSON fields (non-enumerable).
+ * Declared as an accessor so that a spread copy, which loses them, loses them in its type
+ * too.
+ */
+export declare class DecompositionReplicates {
+  /**
+   * Every replicate's terms in draw order, NaN where the replicate failed (non-enumerable,
+   * for plotting one term against another). Each term's finite replicates are also its
+   * estimate's `replicates`.
+   */
+  get replicates(): Readonly<Record<SampleDecompositionTerm, Float64Array>>;
+}
+
+/**
  * The decomposition at the optimum from samples: each term is the plug-in value between
  * the two fits with the se and percentile interval of the refit bootstrap.
  */
-export interface SampleDecomposition {
+export interface SampleDecomposition extends DecompositionReplicates {
   /** `V(D*, G)`. */
   readonly value: BootstrapEstimate;
   /** `JSD(p_data, p_g)`. */
@@ -69,12 +83,6 @@ export interface SampleDecomposition {
   readonly plugIn: OptimumDecomposition;
   /** Replicates whose fit or recomputation failed (left out). */
   readonly failed: number;
-  /**
-   * Every replicate's terms in draw order, NaN where the replicate failed (non-enumerable,
-   * for plotting one term against another). Each term's finite replicates are also its
-   * estimate's `replicates`.
-   */
-  readonly replicates: Readonly<Record<SampleDecompositionTerm, Float64Array>>;
   /** What was done, failures, the numerical share and the bias caveat. */
   readonly notes: readonly string[];
 }

@@ -200,6 +200,10 @@ Deno.test("divergenceFromSamples: a fit that fails on one side says which side",
     assert.equal(e.location.column, 0);
     assert.match(e.message, /fitting the fake samples: column 0 has zero variance/);
     assert.doesNotMatch(e.message, /parameter "samples"/);
+    // The fitter's own error is kept whole as the cause (ES2022 error cause).
+    assert.ok(e.cause instanceof SaddleError);
+    assert.equal(e.cause.code, e.code);
+    assert.equal(e.cause.location.column, 0);
     return true;
   });
 });

@@ -27,8 +27,8 @@ import {
   plotGeneratorObjectives,
   plotObjective,
   plotReliability,
-  wilsonInterval,
 } from "../../lib/plot/mod.ts";
+import { wilsonInterval } from "../../lib/estimate/wilson.ts";
 import { FRAME, roundGeometry, uniqueIds } from "../../lib/plot/compose.ts";
 import { discriminatorGap } from "../../lib/discriminator/discriminator_gap.ts";
 import { generatorObjectives } from "../../lib/value/generator_objectives.ts";
