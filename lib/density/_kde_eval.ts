@@ -6,6 +6,7 @@
  *
  * @module
  */
+import type { EvalMethod } from "./kde_types.ts";
 
 /** Terms more than this many nats below the largest are skipped (1e-16 relative). */
 export const LOG_CUT = 16 * Math.LN10;
@@ -28,8 +29,7 @@ export function expNeg(x: number): number {
     (1 + r * (1 + r * (0.5 + r * (1 / 6 + r * (1 / 24 + r * (1 / 120 + r * (1 / 720)))))));
 }
 
-/** Which evaluator: sorted array (1-D), k-d tree (low d), blocked brute force (any d). */
-export type EvalMethod = "sorted" | "tree" | "blocked";
+export type { EvalMethod };
 
 /** A ready evaluator over fixed centres. */
 export interface KernelSumEvaluator {
@@ -354,4 +354,19 @@ function treeEvaluator(z0: Float64Array, d: number, lw0: Float64Array | null, n:
       }
     },
   };
+}
+
+/** `L⁻¹ x` for every row (forward substitution with the lower Cholesky factor). */
+export function whiten(x: Float64Array, d: number, L: Float64Array): Float64Array {
+  const n = x.length / d;
+  const z = new Float64Array(x.length);
+  for (let r = 0; r < n; r++) {
+    const o = r * d;
+    for (let i = 0; i < d; i++) {
+      let s = x[o + i];
+      for (let k = 0; k < i; k++) s -= L[i * d + k] * z[o + k];
+      z[o + i] = s / L[i * d + i];
+    }
+  }
+  return z;
 }

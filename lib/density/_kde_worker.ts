@@ -8,7 +8,8 @@
  *
  * @module
  */
-import { type EvalMethod, makeEvaluator } from "./_kde_eval.ts";
+import { makeEvaluator } from "./_kde_eval.ts";
+import type { EvalMethod } from "./kde_types.ts";
 
 /** An evaluation job answered by message. */
 export interface KdeJob {

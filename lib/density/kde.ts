@@ -1,7 +1,9 @@
 /**
  * Gaussian kernel density estimates in any dimension, with a full bandwidth matrix (data
- * covariance x factor², as is standard), bandwidth rules, weighted samples, exact tail-safe
- * log-densities and parallel evaluation in Web Workers.
+ * covariance x factor², as is standard), bandwidth rules, weighted samples and exact
+ * tail-safe log-densities. The evaluators are in `_kde_eval.ts`, the evaluation in Web
+ * Workers in `_kde_parallel.ts`, the cross-validation search in `_kde_cv.ts`, the types in
+ * `kde_types.ts`.
  *
  * @module
  */
@@ -10,24 +12,24 @@ import { cholesky, logDetCholesky } from "../linalg/cholesky.ts";
 import { covariance } from "../linalg/moments.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples, samples, type SamplesInput } from "../samples/samples.ts";
+import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
 import {
-  canStartWorker,
   checkQuery,
   checkSampleSize,
   densityBundle,
   description,
   LOG_2PI,
-  type MatrixInput,
   matrixRows,
   toMatrix,
 } from "./_common.ts";
-import { looScan } from "./_cv.ts";
-import { defaultMethod, type EvalMethod, makeEvaluator } from "./_kde_eval.ts";
-import type { KdeJob, KdeSharedJob } from "./_kde_worker.ts";
-
-/** How long `logPdf` waits for a worker before doing its rows itself (ms). */
-const WORKER_TIMEOUT_MS = 60000;
-const WORKER_URL = new URL("./_kde_worker.ts", import.meta.url);
+import { cvFactor } from "./_kde_cv.ts";
+import { defaultMethod, type KernelSumEvaluator, makeEvaluator, whiten } from "./_kde_eval.ts";
+import {
+  evaluateInWorkers,
+  evaluateShared,
+  type KernelCentres,
+  workerCount,
+} from "./_kde_parallel.ts";
 import {
   diffusionBandwidth,
   effectiveSampleSize,
@@ -35,68 +37,40 @@ import {
   silvermanFactor,
   silvermanRuleOfThumb,
 } from "./bandwidth.ts";
-import type { Density, DensityDescription } from "./types.ts";
-import { JUPYTER_DISPLAY, type MimeBundle } from "../display/display.ts";
+import type { EvalMethod, KdeDensity, KdeOptions, ParallelOptions } from "./kde_types.ts";
+import type { DensityDescription } from "./types.ts";
 
-/** A named bandwidth rule. */
-export type BandwidthRule = "scott" | "silverman" | "cv" | "diffusion";
+export type {
+  Bandwidth,
+  BandwidthRule,
+  EvalMethod,
+  KdeDensity,
+  KdeOptions,
+  ParallelOptions,
+} from "./kde_types.ts";
 
-/**
- * A bandwidth: a rule, a factor (number: kernel covariance = data covariance x factor²),
- * the kernel covariance matrix itself (row-major `d * d` values or rows; in 1-D `[h²]`), or
- * for d >= 2 its diagonal (`d` per-axis variances).
- */
-export type Bandwidth = BandwidthRule | number | Exclude<MatrixInput, number>;
-
-/** Options of {@linkcode fitKde}. */
-export interface KdeOptions {
-  /** Bandwidth rule, factor or matrix (default "scott"). */
-  bandwidth?: Bandwidth;
-  /** Per-sample weights (non-negative, not all 0); zero-weight points are dropped. */
-  weights?: ArrayLike<number>;
-  /** Factors tried by `"cv"` (default: 25 log-spaced in [1/8, 2] x Scott, then refined). */
-  cvFactors?: ArrayLike<number>;
-  /** Held-out points used by `"cv"` (default 1000; evenly spaced rows when n is larger). */
-  cvMaxPoints?: number;
-  /** Evaluator (default: sorted for 1-D, k-d tree for 2-D/3-D, blocked for d >= 4). */
-  method?: EvalMethod;
-  /**
-   * Jobs of at least this many kernel terms (fit points x queries) make `logPdf` split the
-   * queries across Web Workers and wait for them (default 5e7; Infinity keeps it on this
-   * thread). The values are identical either way.
-   */
-  parallelMinPairs?: number;
-}
-
-/** Options of {@linkcode KdeDensity.logPdfParallel}. */
-export interface ParallelOptions {
-  /** Number of workers (default `navigator.hardwareConcurrency`, at most 8). */
-  workers?: number;
-  /**
-   * Smallest job (fit points x query points) worth workers (default 4e6; the 1-D evaluator
-   * counts at most 1000 points a query and needs 100 times more, since it is much faster).
-   */
-  minPairs?: number;
-}
-
-/** A fitted Gaussian KDE. */
-export interface KdeDensity extends Density {
-  /** Kernel centres (the fitted points with positive weight). */
+/** What the `Kde` constructor takes: the fitted centres, their weights and the bandwidth. */
+interface KdeParts {
+  /** Kernel centres (points with positive weight). */
   readonly points: Samples;
-  /** Normalised weights of the centres (sum 1). */
+  /** Normalised weights of the centres. */
   readonly weights: Float64Array;
-  /** Kernel covariance H (row-major d x d); in 1-D `[h²]`. */
+  /** True when every weight is 1/n (no weights given). */
+  readonly uniform: boolean;
+  /** Kernel covariance H, row-major d x d. */
   readonly bandwidth: Float64Array;
+  /** How H was chosen. */
+  readonly rule: string;
   /** The factor with H = data covariance x factor², when H was built that way. */
   readonly factor?: number;
-  /** How H was chosen: "scott", "silverman", "cv", "diffusion", "factor", "matrix", "diagonal". */
-  readonly rule: string;
-  /** Effective sample size (Kish) of the weights; n without weights. */
-  readonly neff: number;
-  /** The exact evaluator in use. */
+  /** The evaluator. */
   readonly method: EvalMethod;
-  /** `logPdf` split across Web Workers when the job is large enough (same values). */
-  logPdfParallel(x: Samples, options?: ParallelOptions): Promise<Float64Array>;
+  /** Extra description parameters (the CV scan, the diffusion time...). */
+  readonly extra: Record<string, unknown>;
+  /** Notes of the description. */
+  readonly notes: string[];
+  /** Smallest job `logPdf` splits across workers. */
+  readonly syncMinPairs: number;
 }
 
 class Kde implements KdeDensity {
@@ -109,169 +83,73 @@ class Kde implements KdeDensity {
   readonly neff: number;
   readonly method: EvalMethod;
   readonly #L: Float64Array;
-  readonly #z: Float64Array;
-  readonly #lw: Float64Array | null;
+  readonly #centres: KernelCentres;
   readonly #logNorm: number;
   readonly #extra: Record<string, unknown>;
   readonly #notes: string[];
   readonly #syncMinPairs: number;
   #evaluator?: ReturnType<typeof makeEvaluator>;
 
-  constructor(
-    points: Samples,
-    weights: Float64Array,
-    uniform: boolean,
-    H: Float64Array,
-    rule: string,
-    factor: number | undefined,
-    method: EvalMethod,
-    extra: Record<string, unknown>,
-    notes: string[],
-    syncMinPairs: number,
-  ) {
-    const d = points.d;
+  constructor(o: KdeParts) {
+    const points = o.points, d = points.d;
     this.d = d;
     this.points = points;
-    this.weights = weights;
-    this.bandwidth = H;
-    if (factor !== undefined) this.factor = factor;
-    this.rule = rule;
-    this.neff = effectiveSampleSize(points.n, uniform ? undefined : weights);
-    this.method = method;
-    this.#L = cholesky(H, d, { name: "bandwidth" });
-    this.#z = whiten(points.data, d, this.#L);
-    this.#lw = uniform ? null : weights.map(Math.log);
+    this.weights = o.weights;
+    this.bandwidth = o.bandwidth;
+    if (o.factor !== undefined) this.factor = o.factor;
+    this.rule = o.rule;
+    this.neff = effectiveSampleSize(points.n, o.uniform ? undefined : o.weights);
+    this.method = o.method;
+    this.#L = cholesky(o.bandwidth, d, { name: "bandwidth" });
+    this.#centres = {
+      z: whiten(points.data, d, this.#L),
+      d,
+      lw: o.uniform ? null : o.weights.map(Math.log),
+      method: o.method,
+    };
     this.#logNorm = -0.5 * (d * LOG_2PI + logDetCholesky(this.#L, d));
-    this.#extra = extra;
-    this.#notes = notes;
-    this.#syncMinPairs = syncMinPairs;
+    this.#extra = o.extra;
+    this.#notes = o.notes;
+    this.#syncMinPairs = o.syncMinPairs;
   }
 
   logPdf(x: Samples): Float64Array {
     checkQuery(x, this.d, "kde");
     const q = whiten(x.data, this.d, this.#L);
-    const out = this.#workerCount(x.n, this.#syncMinPairs) > 1
-      ? this.#evaluateShared(q, x.n)
+    const threads = workerCount(this.#centres, x.n, this.#syncMinPairs);
+    const out = threads > 1
+      ? evaluateShared(this.#centres, this.#here(), q, x.n, threads)
       : this.#evaluateHere(q, x.n);
     for (let i = 0; i < x.n; i++) out[i] += this.#logNorm;
     return out;
   }
 
+  #here(): KernelSumEvaluator {
+    const c = this.#centres;
+    return this.#evaluator ??= makeEvaluator(c.z, c.d, c.lw, c.method);
+  }
+
   #evaluateHere(q: Float64Array, m: number): Float64Array {
-    this.#evaluator ??= makeEvaluator(this.#z, this.d, this.#lw, this.method);
     const out = new Float64Array(m);
-    this.#evaluator.evaluate(q, out, 0, m);
+    this.#here().evaluate(q, out, 0, m);
     return out;
-  }
-
-  /** Workers wanted for `m` queries: 1 below `minPairs` of estimated kernel terms. */
-  #workerCount(m: number, minPairs: number, requested?: number): number {
-    const cores = Math.min(8, navigator.hardwareConcurrency ?? 1);
-    const workers = Math.max(1, Math.min(requested ?? cores, m));
-    // The 1-D evaluator costs about the same per query whatever n (box expansions): count
-    // its work as at most 1000 kernel terms a query, and ask for 100 times more.
-    const sorted = this.method === "sorted";
-    const work = m * (sorted ? Math.min(this.points.n, 1000) : this.points.n);
-    if (workers < 2 || work < minPairs * (sorted ? 100 : 1)) return 1;
-    return canStartWorker(WORKER_URL) ? workers : 1;
-  }
-
-  /**
-   * Synchronous parallel evaluation: workers read the whitened queries from shared memory
-   * while this thread does its own share, then it waits on shared flags (Atomics.wait).
-   */
-  #evaluateShared(q: Float64Array, m: number): Float64Array {
-    const d = this.d;
-    const threads = this.#workerCount(m, this.#syncMinPairs);
-    const qSab = new SharedArrayBuffer(q.length * 8);
-    new Float64Array(qSab).set(q);
-    const outSab = new SharedArrayBuffer(m * 8);
-    const doneSab = new SharedArrayBuffer(threads * 4);
-    const flags = new Int32Array(doneSab);
-    const bounds = Array.from({ length: threads + 1 }, (_, i) => Math.floor((i * m) / threads));
-    const workers: Worker[] = [];
-    for (let i = 1; i < threads; i++) {
-      let w: Worker;
-      try {
-        w = new Worker(WORKER_URL, { type: "module" });
-      } catch {
-        break; // no permission to start workers: the remaining rows are done here
-      }
-      const job: KdeSharedJob = {
-        z: this.#z,
-        d,
-        lw: this.#lw,
-        method: this.method,
-        q: qSab,
-        out: outSab,
-        done: doneSab,
-        index: i,
-        from: bounds[i],
-        to: bounds[i + 1],
-      };
-      w.postMessage(job);
-      workers.push(w);
-    }
-    const out = new Float64Array(outSab);
-    this.#evaluator ??= makeEvaluator(this.#z, d, this.#lw, this.method);
-    const qs = new Float64Array(qSab);
-    this.#evaluator.evaluate(qs, out.subarray(0, bounds[1]), 0, bounds[1]);
-    try {
-      for (let i = 1; i < threads; i++) {
-        // A worker that has not finished within the timeout (it could not start, say) has
-        // its rows done here instead.
-        const r = i <= workers.length ? Atomics.wait(flags, i, 0, WORKER_TIMEOUT_MS) : "none";
-        if (r === "timed-out" || r === "none" || Atomics.load(flags, i) !== 1) {
-          this.#evaluator.evaluate(
-            qs,
-            out.subarray(bounds[i], bounds[i + 1]),
-            bounds[i],
-            bounds[i + 1],
-          );
-        }
-      }
-    } finally {
-      for (const w of workers) w.terminate();
-    }
-    return Float64Array.from(out);
   }
 
   async logPdfParallel(x: Samples, options: ParallelOptions = {}): Promise<Float64Array> {
     checkQuery(x, this.d, "kde");
-    const workers = this.#workerCount(x.n, options.minPairs ?? 4e6, options.workers);
-    if (workers < 2) {
-      const q = whiten(x.data, this.d, this.#L);
-      const out = this.#evaluateHere(q, x.n);
-      for (let i = 0; i < x.n; i++) out[i] += this.#logNorm;
-      return out;
-    }
+    const workers = workerCount(this.#centres, x.n, options.minPairs ?? 4e6, options.workers);
     const q = whiten(x.data, this.d, this.#L);
-    const d = this.d;
-    const chunks: Promise<Float64Array>[] = [];
-    for (let k = 0; k < workers; k++) {
-      const a = Math.floor((k * x.n) / workers), b = Math.floor(((k + 1) * x.n) / workers);
-      const job: KdeJob = {
-        z: this.#z,
-        d,
-        lw: this.#lw,
-        method: this.method,
-        q: q.slice(a * d, b * d),
-      };
-      chunks.push(runWorker(job));
+    let out: Float64Array;
+    if (workers < 2) out = this.#evaluateHere(q, x.n);
+    else {
+      try {
+        out = await evaluateInWorkers(this.#centres, q, x.n, workers);
+      } catch {
+        // Workers unavailable (permissions) or failed: evaluate here instead.
+        return this.logPdf(x);
+      }
     }
-    let parts: Float64Array[];
-    try {
-      parts = await Promise.all(chunks);
-    } catch {
-      // Workers unavailable (permissions) or failed: evaluate here instead.
-      return this.logPdf(x);
-    }
-    const out = new Float64Array(x.n);
-    let o = 0;
-    for (const p of parts) {
-      for (let i = 0; i < p.length; i++) out[o + i] = p[i] + this.#logNorm;
-      o += p.length;
-    }
+    for (let i = 0; i < x.n; i++) out[i] += this.#logNorm;
     return out;
   }
 
@@ -279,7 +157,7 @@ class Kde implements KdeDensity {
     checkSampleSize(n);
     const rng = toRng(seed);
     const d = this.d, L = this.#L, src = this.points.data;
-    const pick = this.#lw ? rng.categoricalSampler(this.weights) : null;
+    const pick = this.#centres.lw ? rng.categoricalSampler(this.weights) : null;
     const out = new Float64Array(n * d);
     const e = new Float64Array(d);
     for (let r = 0; r < n; r++) {
@@ -311,42 +189,6 @@ class Kde implements KdeDensity {
       ...this.#extra,
     }, this.#notes);
   }
-}
-
-function runWorker(job: KdeJob): Promise<Float64Array> {
-  let worker: Worker;
-  try {
-    worker = new Worker(WORKER_URL, { type: "module" });
-  } catch (e) {
-    return Promise.reject(e);
-  }
-  return new Promise<Float64Array>((resolve, reject) => {
-    worker.onmessage = (e: MessageEvent<Float64Array>) => {
-      worker.terminate();
-      resolve(e.data);
-    };
-    worker.onerror = (e: ErrorEvent) => {
-      e.preventDefault();
-      worker.terminate();
-      reject(new SaddleError("numerical", `KDE worker failed: ${e.message}`));
-    };
-    worker.postMessage(job);
-  });
-}
-
-/** `L⁻¹ x` for every row (forward substitution with the lower Cholesky factor). */
-function whiten(x: Float64Array, d: number, L: Float64Array): Float64Array {
-  const n = x.length / d;
-  const z = new Float64Array(x.length);
-  for (let r = 0; r < n; r++) {
-    const o = r * d;
-    for (let i = 0; i < d; i++) {
-      let s = x[o + i];
-      for (let k = 0; k < i; k++) s -= L[i * d + k] * z[o + k];
-      z[o + i] = s / L[i * d + i];
-    }
-  }
-  return z;
 }
 
 /**
@@ -395,8 +237,20 @@ export function fitKde(input: SamplesInput, options: KdeOptions = {}): KdeDensit
   const method = options.method ?? defaultMethod(d);
   const notes: string[] = [];
   const extra: Record<string, unknown> = {};
-  const make = (H: Float64Array, rule: string, factor?: number) =>
-    new Kde(s, w, uniform, H, rule, factor, method, extra, notes, options.parallelMinPairs ?? 5e7);
+  const syncMinPairs = options.parallelMinPairs ?? 5e7;
+  const make = (bandwidth: Float64Array, rule: string, factor?: number) =>
+    new Kde({
+      points: s,
+      weights: w,
+      uniform,
+      bandwidth,
+      rule,
+      ...(factor !== undefined ? { factor } : {}),
+      method,
+      extra,
+      notes,
+      syncMinPairs,
+    });
   const neff = effectiveSampleSize(s.n, uniform ? undefined : w);
   if (typeof bw !== "string" && typeof bw !== "number") {
     const flat = bw as ArrayLike<unknown>;
@@ -458,61 +312,6 @@ export function fitKde(input: SamplesInput, options: KdeOptions = {}): KdeDensit
         { parameter: "bandwidth" },
       );
   }
-}
-
-function cvFactor(
-  s: Samples,
-  w: Float64Array,
-  cov: Float64Array,
-  neff: number,
-  options: KdeOptions,
-  extra: Record<string, unknown>,
-  notes: string[],
-): number {
-  const d = s.d;
-  const u = whiten(s.data, d, cholesky(cov, d, { name: "data covariance" }));
-  const maxHeld = options.cvMaxPoints ?? 1000;
-  const scott = scottFactor(neff, d);
-  let grid: Float64Array;
-  if (options.cvFactors) {
-    grid = Float64Array.from(options.cvFactors);
-    if (grid.length === 0 || grid.some((f) => !(f > 0) || !Number.isFinite(f))) {
-      throw new SaddleError("invalid-argument", "cvFactors must be positive finite numbers", {
-        parameter: "cvFactors",
-      });
-    }
-  } else {
-    grid = Float64Array.from({ length: 25 }, (_, i) => scott * Math.pow(2, -3 + (4 * i) / 24));
-  }
-  let scan = looScan(u, d, w, grid, maxHeld);
-  let best = argmax(scan.scores);
-  const coarse = scan;
-  if (!options.cvFactors && best > 0 && best < grid.length - 1) {
-    const lo = Math.log(grid[best - 1]), hi = Math.log(grid[best + 1]);
-    const fine = Float64Array.from({ length: 11 }, (_, i) => Math.exp(lo + ((hi - lo) * i) / 10));
-    scan = looScan(u, d, w, fine, maxHeld);
-    best = argmax(scan.scores);
-  } else if (best === 0 || best === grid.length - 1) {
-    notes.push(
-      `the leave-one-out optimum lies at the ${
-        best === 0 ? "smallest" : "largest"
-      } factor tried; ` +
-        "widen cvFactors (ties in the data push the optimum to 0)",
-    );
-  }
-  extra.cv = {
-    factors: Array.from(coarse.factors),
-    looLogLikelihood: Array.from(coarse.scores),
-    heldOut: Math.min(s.n, maxHeld),
-  };
-  extra.looLogLikelihood = scan.scores[best];
-  return scan.factors[best];
-}
-
-function argmax(v: Float64Array): number {
-  let b = 0;
-  for (let i = 1; i < v.length; i++) if (v[i] > v[b]) b = i;
-  return b;
 }
 
 function applyWeights(s: Samples, weights?: ArrayLike<number>) {

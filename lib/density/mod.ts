@@ -7,7 +7,7 @@
  */
 export * from "./types.ts";
 export type { MatrixInput } from "../linalg/matrix_input.ts";
-export type { EvalMethod } from "./_kde_eval.ts";
+export * from "./kde_types.ts";
 export { gaussian, type GaussianDensity } from "./gaussian.ts";
 export * from "./gaussian_mixture.ts";
 export * from "./uniform_box.ts";

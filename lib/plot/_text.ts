@@ -44,3 +44,54 @@ export function short(x: number, digits = 3): string {
   }
   return x < 0 ? `−${s}` : s;
 }
+
+/** Break `text` into lines that fit `maxWidth` at `fontSize` (words longer than a line stay). */
+export function wrap(text: string, fontSize: number, maxWidth: number): string[] {
+  const words = text.split(/\s+/).filter(Boolean);
+  const lines: string[] = [];
+  let cur = "";
+  for (const w of words) {
+    const next = cur ? `${cur} ${w}` : w;
+    if (cur && textWidth(next, fontSize) > maxWidth) {
+      lines.push(cur);
+      cur = w;
+    } else cur = next;
+  }
+  if (cur) lines.push(cur);
+  return lines;
+}
+
+/** Where {@linkcode wrappedText} writes: left edge, top, font, width, spacing, attributes. */
+export interface WrappedTextOptions {
+  /** Left edge, px. */
+  x: number;
+  /** The y before the first line, px. */
+  y: number;
+  /** Font size, px. */
+  fontSize: number;
+  /** Width the lines wrap at, px. */
+  maxWidth: number;
+  /** Space added to `fontSize` per line, px. */
+  lead: number;
+  /** How far above the advanced y the baseline sits, px. */
+  rise: number;
+  /** Extra attributes of each `<text>` (with a leading space), e.g. ` font-weight="bold"`. */
+  attrs: string;
+}
+
+/**
+ * Wrap `text` at `maxWidth` and append one `<text>` per line to `parts`, advancing y by
+ * `fontSize + lead` a line; returns the y after the last line.
+ */
+export function wrappedText(parts: string[], text: string, o: WrappedTextOptions): number {
+  let y = o.y;
+  for (const line of wrap(text, o.fontSize, o.maxWidth)) {
+    y += o.fontSize + o.lead;
+    parts.push(
+      `<text x="${o.x}" y="${y - o.rise}" font-size="${o.fontSize}"${o.attrs}>${
+        escapeXml(line)
+      }</text>`,
+    );
+  }
+  return y;
+}

@@ -29,7 +29,8 @@ import {
   plotReliability,
 } from "../../lib/plot/mod.ts";
 import { wilsonInterval } from "../../lib/estimate/wilson.ts";
-import { FRAME, roundGeometry, uniqueIds } from "../../lib/plot/compose.ts";
+import { FRAME } from "../../lib/plot/compose.ts";
+import { roundGeometry, uniqueIds } from "../../lib/plot/svg_cleanup.ts";
 import { discriminatorGap } from "../../lib/discriminator/discriminator_gap.ts";
 import { generatorObjectives } from "../../lib/value/generator_objectives.ts";
 import { grid2d, hdrThresholds } from "../../lib/plot/_grid.ts";
