@@ -53,7 +53,16 @@ export class EmEngine {
   #par?: Float64Array;
   #started = false;
 
-  constructor(data: Float64Array, n: number, d: number, k: number, full: boolean, workers: number) {
+  constructor(
+    { data, n, d, k, full, workers }: {
+      data: Float64Array;
+      n: number;
+      d: number;
+      k: number;
+      full: boolean;
+      workers: number;
+    },
+  ) {
     this.#n = n;
     this.#d = d;
     this.#k = k;
@@ -116,19 +125,19 @@ export class EmEngine {
     const parts = this.#bounds.length - 1;
     const sl = statsLayout(k, d);
     const run = (part: number) =>
-      runPart(
-        this.#stats,
+      runPart({
+        all: this.#stats,
         part,
         sl,
         k,
         d,
-        { bounds: this.#bounds, full: this.#full },
-        this.#data,
-        p.mu,
+        s: { bounds: this.#bounds, full: this.#full },
+        data: this.#data,
+        mu: p.mu,
         prep,
-        this.ll,
-        stats !== null,
-      );
+        ll: this.ll,
+        withStats: stats !== null,
+      });
     if (this.#workers.length > 0) {
       const ctrl = this.#ctrl!, par = this.#par!;
       const pl = paramLayout(k, d);

@@ -72,16 +72,18 @@ export interface PassStats {
  * Returns Σ ll[i] over the rows.
  */
 export function emPass(
-  data: Float64Array,
-  from: number,
-  to: number,
-  d: number,
-  k: number,
-  mu: Float64Array,
-  prep: Prepared,
-  full: boolean,
-  ll: Float64Array,
-  stats: PassStats | null,
+  { data, from, to, d, k, mu, prep, full, ll, stats }: {
+    data: Float64Array;
+    from: number;
+    to: number;
+    d: number;
+    k: number;
+    mu: Float64Array;
+    prep: Prepared;
+    full: boolean;
+    ll: Float64Array;
+    stats: PassStats | null;
+  },
 ): number {
   const { U, base } = prep;
   const dev = new Float64Array(k * d);

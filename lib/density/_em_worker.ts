@@ -69,7 +69,7 @@ scope.onmessage = (e: MessageEvent<EmWorkerSetup>) => {
     if (cmd === CMD_STOP) break;
     try {
       for (const part of s.parts) {
-        runPart(all, part, sl, k, d, s, data, mu, prep, ll, cmd === CMD_STATS);
+        runPart({ all, part, sl, k, d, s, data, mu, prep, ll, withStats: cmd === CMD_STATS });
       }
     } catch {
       Atomics.store(ctrl, CTRL_ERR, 1);
@@ -85,19 +85,31 @@ scope.onmessage = (e: MessageEvent<EmWorkerSetup>) => {
  * `all`: every part is summed alone and the parts are combined in order, so the result does
  * not depend on how many threads ran.
  */
-export function runPart(
-  all: Float64Array,
-  part: number,
-  sl: ReturnType<typeof statsLayout>,
-  k: number,
-  d: number,
-  s: { bounds: number[]; full: boolean },
-  data: Float64Array,
-  mu: Float64Array,
-  prep: { U: Float64Array; base: Float64Array },
-  ll: Float64Array,
-  withStats: boolean,
-): void {
+export function runPart({
+  all,
+  part,
+  sl,
+  k,
+  d,
+  s,
+  data,
+  mu,
+  prep,
+  ll,
+  withStats,
+}: {
+  all: Float64Array;
+  part: number;
+  sl: ReturnType<typeof statsLayout>;
+  k: number;
+  d: number;
+  s: { bounds: number[]; full: boolean };
+  data: Float64Array;
+  mu: Float64Array;
+  prep: { U: Float64Array; base: Float64Array };
+  ll: Float64Array;
+  withStats: boolean;
+}): void {
   const slot = all.subarray(part * sl.size, (part + 1) * sl.size);
   slot.fill(0);
   const stats = withStats
@@ -107,16 +119,16 @@ export function runPart(
       s2: slot.subarray(sl.s2, sl.s2 + k * d * d),
     }
     : null;
-  slot[sl.total] = emPass(
+  slot[sl.total] = emPass({
     data,
-    s.bounds[part],
-    s.bounds[part + 1],
+    from: s.bounds[part],
+    to: s.bounds[part + 1],
     d,
     k,
     mu,
     prep,
-    s.full,
+    full: s.full,
     ll,
     stats,
-  );
+  });
 }

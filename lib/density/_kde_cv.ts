@@ -78,13 +78,15 @@ export function looScan(
  * `extra` and a warning into `notes` when the optimum is at the end of the grid.
  */
 export function cvFactor(
-  s: Samples,
-  w: Float64Array,
-  cov: Float64Array,
-  neff: number,
-  options: KdeOptions,
-  extra: Record<string, unknown>,
-  notes: string[],
+  { s, w, cov, neff, options, extra, notes }: {
+    s: Samples;
+    w: Float64Array;
+    cov: Float64Array;
+    neff: number;
+    options: KdeOptions;
+    extra: Record<string, unknown>;
+    notes: string[];
+  },
 ): number {
   const d = s.d;
   const u = whiten(s.data, d, cholesky(cov, d, { name: "data covariance" }));

@@ -14,12 +14,14 @@ import type { Rng } from "../random/rng.ts";
  * (SODA); Lloyd 1982.
  */
 export function kmeansPlusPlus(
-  x: Float64Array,
-  n: number,
-  d: number,
-  k: number,
-  rng: Rng,
-  lloyd = 10,
+  { x, n, d, k, rng, lloyd = 10 }: {
+    x: Float64Array;
+    n: number;
+    d: number;
+    k: number;
+    rng: Rng;
+    lloyd?: number;
+  },
 ): { centres: Float64Array; labels: Int32Array } {
   const centres = new Float64Array(k * d);
   const dist = new Float64Array(n).fill(Infinity);

@@ -123,7 +123,7 @@ export function fitGaussianMixture(
   const tol = options.tol ?? 1e-6;
   const maxIter = options.maxIter ?? 200;
   const restarts = options.init ? 1 : options.restarts ?? 3;
-  checkOptions(n, k, type, reg, tol, maxIter, restarts);
+  checkOptions({ n, k, type, reg, tol, maxIter, restarts });
   const rng = toRng(options.seed ?? 0);
   const d = s.d;
   const cores = Math.min(8, navigator.hardwareConcurrency ?? 1);
@@ -133,7 +133,7 @@ export function fitGaussianMixture(
       parameter: "workers",
     });
   }
-  const engine = new EmEngine(s.data, n, d, k, type === "full", workers);
+  const engine = new EmEngine({ data: s.data, n, d, k, full: type === "full", workers });
   let best: Run | undefined;
   let lastError: unknown;
   try {
@@ -142,7 +142,7 @@ export function fitGaussianMixture(
         const start = options.init
           ? initFromParams(s, k, type, options.init)
           : initKmeans(s, k, type, reg, rng.fork(`start-${r}`));
-        const run = em(s, engine, start, type, reg, tol, maxIter);
+        const run = em({ s, engine, start, type, reg, tol, maxIter });
         if (!best || run.ll > best.ll) best = run;
       } catch (e) {
         if (!(e instanceof SaddleError) || restarts === 1) throw e;
@@ -157,13 +157,15 @@ export function fitGaussianMixture(
 }
 
 function checkOptions(
-  n: number,
-  k: number,
-  type: string,
-  reg: number,
-  tol: number,
-  maxIter: number,
-  restarts: number,
+  { n, k, type, reg, tol, maxIter, restarts }: {
+    n: number;
+    k: number;
+    type: string;
+    reg: number;
+    tol: number;
+    maxIter: number;
+    restarts: number;
+  },
 ): void {
   const bad = (p: string, msg: string) =>
     new SaddleError("invalid-argument", msg, { parameter: p });
@@ -194,7 +196,7 @@ function checkOptions(
 
 function initKmeans(s: Samples, k: number, type: CovarianceType, reg: number, rng: Rng): Params {
   const { n, d, data } = s;
-  const { labels } = kmeansPlusPlus(data, n, d, k, rng);
+  const { labels } = kmeansPlusPlus({ x: data, n, d, k, rng });
   const resp = new Float64Array(n * k);
   for (let i = 0; i < n; i++) resp[i * k + labels[i]] = 1;
   const global = sampleCovariance(data, n, d, { ddof: 0 });
@@ -278,13 +280,15 @@ type Stats = PassStats;
 
 /** New parameters from the pass statistics; collapsed components are reported by index. */
 function update(
-  p: Params,
-  st: Stats,
-  k: number,
-  d: number,
-  n: number,
-  type: CovarianceType,
-  reg: number,
+  { p, st, k, d, n, type, reg }: {
+    p: Params;
+    st: Stats;
+    k: number;
+    d: number;
+    n: number;
+    type: CovarianceType;
+    reg: number;
+  },
 ): { params: Params; collapsed: number[] } {
   const w = new Float64Array(k), mu = new Float64Array(k * d), cov = new Float64Array(k * d * d);
   const collapsed: number[] = [];
@@ -360,18 +364,20 @@ function mStep(
       }
     }
   }
-  const { params } = update(zero, st, k, d, n, type, reg);
+  const { params } = update({ p: zero, st, k, d, n, type, reg });
   return params;
 }
 
 function em(
-  s: Samples,
-  engine: EmEngine,
-  start: Params,
-  type: CovarianceType,
-  reg: number,
-  tol: number,
-  maxIter: number,
+  { s, engine, start, type, reg, tol, maxIter }: {
+    s: Samples;
+    engine: EmEngine;
+    start: Params;
+    type: CovarianceType;
+    reg: number;
+    tol: number;
+    maxIter: number;
+  },
 ): Run {
   const k = start.w.length;
   const { n, d } = s;
@@ -392,7 +398,7 @@ function em(
     st.s2.fill(0);
     const cur = engine.pass(p, st);
     checkFinite(cur);
-    const up = update(p, st, k, d, n, type, reg);
+    const up = update({ p, st, k, d, n, type, reg });
     for (const j of up.collapsed) {
       if (reseeded[j]) {
         throw new SaddleError(
@@ -403,7 +409,7 @@ function em(
         );
       }
       reseeded[j] = 1;
-      reseed(s, up.params, j, ll, start, reg);
+      reseed({ s, p: up.params, j, ll, start, reg });
     }
     if (up.collapsed.length) normalise(up.params.w);
     p = up.params;
@@ -430,7 +436,16 @@ function checkFinite(v: number): void {
 }
 
 /** Put a collapsed component at the worst-explained point with the starting spread. */
-function reseed(s: Samples, p: Params, j: number, ll: Float64Array, start: Params, reg: number) {
+function reseed(
+  { s, p, j, ll, start, reg }: {
+    s: Samples;
+    p: Params;
+    j: number;
+    ll: Float64Array;
+    start: Params;
+    reg: number;
+  },
+) {
   const { n, d, data } = s;
   let worst = 0;
   for (let i = 1; i < n; i++) if (ll[i] < ll[worst]) worst = i;

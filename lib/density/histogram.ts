@@ -147,7 +147,7 @@ export function fitHistogram(
     });
   }
   const probabilities = counts.map((v) => (v + alpha) / denom);
-  return new Histogram(bins, lower, upper, probabilities, counts, alpha);
+  return new Histogram({ bins, lower, upper, probabilities, counts, alpha });
 }
 
 function binOf(v: number, lo: number, hi: number, b: number): number {
@@ -175,14 +175,27 @@ class Histogram implements HistogramDensity {
   readonly #logCell: Float64Array;
   readonly #alpha: number;
 
+  readonly bins: readonly number[];
+  readonly lower: Float64Array;
+  readonly upper: Float64Array;
+  readonly probabilities: Float64Array;
+  readonly counts: Float64Array;
+
   constructor(
-    readonly bins: readonly number[],
-    readonly lower: Float64Array,
-    readonly upper: Float64Array,
-    readonly probabilities: Float64Array,
-    readonly counts: Float64Array,
-    alpha: number,
+    { bins, lower, upper, probabilities, counts, alpha }: {
+      bins: readonly number[];
+      lower: Float64Array;
+      upper: Float64Array;
+      probabilities: Float64Array;
+      counts: Float64Array;
+      alpha: number;
+    },
   ) {
+    this.bins = bins;
+    this.lower = lower;
+    this.upper = upper;
+    this.probabilities = probabilities;
+    this.counts = counts;
     this.d = bins.length;
     let logVol = 0;
     for (let c = 0; c < this.d; c++) logVol += Math.log((upper[c] - lower[c]) / bins[c]);

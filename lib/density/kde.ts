@@ -302,7 +302,7 @@ export function fitKde(input: SamplesInput, options: KdeOptions = {}): KdeDensit
       );
     }
     case "cv": {
-      const f = cvFactor(s, w, cov, neff, options, extra, notes);
+      const f = cvFactor({ s, w, cov, neff, options, extra, notes });
       return make(scaled(f), "cv", f);
     }
     default:

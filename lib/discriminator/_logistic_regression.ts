@@ -18,13 +18,15 @@ export interface LogisticFit {
 
 /** Objective `Σ s_i [softplus(η_i) - y_i η_i] / Σ s + (λ/2) |coef|²`. */
 function objective(
-  x: Float64Array,
-  p: number,
-  y: Uint8Array,
-  s: Float64Array,
-  beta: Float64Array,
-  lambda: number,
-  eta: Float64Array,
+  { x, p, y, s, beta, lambda, eta }: {
+    x: Float64Array;
+    p: number;
+    y: Uint8Array;
+    s: Float64Array;
+    beta: Float64Array;
+    lambda: number;
+    eta: Float64Array;
+  },
 ): number {
   const n = y.length;
   let total = 0, sw = 0;
@@ -46,18 +48,20 @@ function objective(
  * finite on separable data (disjoint supports).
  */
 export function fitLogistic(
-  x: Float64Array,
-  p: number,
-  y: Uint8Array,
-  s: Float64Array,
-  lambda: number,
-  maxIterations = 100,
+  { x, p, y, s, lambda, maxIterations = 100 }: {
+    x: Float64Array;
+    p: number;
+    y: Uint8Array;
+    s: Float64Array;
+    lambda: number;
+    maxIterations?: number;
+  },
 ): LogisticFit {
   const n = y.length;
   const q = p + 1;
   let beta = new Float64Array(q);
   const eta = new Float64Array(n);
-  let f = objective(x, p, y, s, beta, lambda, eta);
+  let f = objective({ x, p, y, s, beta, lambda, eta });
   let sw = 0;
   for (let i = 0; i < n; i++) sw += s[i];
   const H = new Float64Array(q * q), g = new Float64Array(q), row = new Float64Array(q);
@@ -100,7 +104,7 @@ export function fitLogistic(
     let next = beta;
     for (let h = 0; h < 30; h++) {
       next = beta.map((b, j) => b - step * delta[j]);
-      fNew = objective(x, p, y, s, next, lambda, eta);
+      fNew = objective({ x, p, y, s, beta: next, lambda, eta });
       if (fNew <= f + 1e-15 * Math.abs(f)) break;
       step *= 0.5;
     }

@@ -89,7 +89,14 @@ function fitModel(
     y[i] = isReal ? 1 : 0;
     s[i] = isReal ? pooled.n / (2 * real.n) : pooled.n / (2 * fake.n);
   }
-  const fit = fitLogistic(x, features.dim, y, s, ridgeOf(options), options.maxIter ?? 100);
+  const fit = fitLogistic({
+    x,
+    p: features.dim,
+    y,
+    s,
+    lambda: ridgeOf(options),
+    maxIterations: options.maxIter ?? 100,
+  });
   return { features, fit };
 }
 

@@ -47,12 +47,14 @@ export interface SampleDivergence extends BootstrapEstimate, RefitDetail {}
  * The detail a sample divergence carries beside its JSON fields (non-enumerable). Declared
  * as accessors so that a spread copy, which loses them, loses them in its type too.
  */
-export declare class RefitDetail {
+declare class RefitDetail {
   /** The plug-in divergence between the fits, with its numerical error bar only (hidden). */
   get plugIn(): Estimate;
   /** Replicates whose fit or recomputation failed (hidden). */
   get failed(): number;
 }
+// Type-only: the class exists for the types alone (no runtime value to import).
+export type { RefitDetail };
 
 /**
  * The f-divergence `D_f(P || Q)` between the distributions behind two sample sets, with an

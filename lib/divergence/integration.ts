@@ -113,12 +113,14 @@ function gridBounds(
 }
 
 function gridPass(
-  p: Density,
-  q: Density,
-  weights: readonly MixtureWeight[],
-  bounds: readonly (readonly [number, number])[],
-  g: number,
-  offset = 0,
+  { p, q, weights, bounds, g, offset = 0 }: {
+    p: Density;
+    q: Density;
+    weights: readonly MixtureWeight[];
+    bounds: readonly (readonly [number, number])[];
+    g: number;
+    offset?: number;
+  },
 ): {
   sums: Float64Array;
   massP: number;
@@ -214,9 +216,9 @@ export function integrateGrid(
     });
   }
   let bounds = gridBounds(p, q, options);
-  let coarse = gridPass(p, q, weights, bounds, g);
-  let fine = gridPass(p, q, weights, bounds, 2 * g);
-  let shifted = gridPass(p, q, weights, bounds, 2 * g, 0.5);
+  let coarse = gridPass({ p, q, weights, bounds, g });
+  let fine = gridPass({ p, q, weights, bounds, g: 2 * g });
+  let shifted = gridPass({ p, q, weights, bounds, g: 2 * g, offset: 0.5 });
   const notes: string[] = [];
   // Integrands with heavier tails than m (χ² with a wider q, say) are still large on the rim:
   // the tail beyond the range is estimated as rim height x box volume; while it matters and
@@ -233,9 +235,9 @@ export function integrateGrid(
       const c = 0.5 * (lo + hi), r = hi - lo;
       return [c - r, c + r] as const;
     });
-    coarse = gridPass(p, q, weights, bounds, g);
-    fine = gridPass(p, q, weights, bounds, 2 * g);
-    shifted = gridPass(p, q, weights, bounds, 2 * g, 0.5);
+    coarse = gridPass({ p, q, weights, bounds, g });
+    fine = gridPass({ p, q, weights, bounds, g: 2 * g });
+    shifted = gridPass({ p, q, weights, bounds, g: 2 * g, offset: 0.5 });
     tail = tails();
     notes.push(`the integrand is heavy-tailed: range widened to ${fmtBounds(bounds)}`);
   }

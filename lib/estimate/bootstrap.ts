@@ -25,10 +25,12 @@ export interface BootstrapOptions {
  * Declared as an accessor so that a spread copy, which loses them, loses them in its type
  * too: `const c: BootstrapEstimate = { ...e }` does not compile.
  */
-export declare class BootstrapReplicates {
+declare class BootstrapReplicates {
   /** The statistic on each bootstrap resample, in draw order (hidden: not in JSON). */
   get replicates(): Float64Array;
 }
+// Type-only: the class exists for the types alone (no runtime value to import).
+export type { BootstrapReplicates };
 
 /**
  * An {@linkcode Estimate} from the bootstrap, with the replicate values (non-enumerable:

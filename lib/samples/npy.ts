@@ -79,7 +79,7 @@ export function parseNpy(bytes: Uint8Array, options: NpyOptions = {}): Samples {
   for (let k = 0; k < total; k += CHUNK) {
     const count = Math.min(CHUNK, total - k);
     const src = bytes.subarray(h.dataOffset + k * s, h.dataOffset + (k + count) * s);
-    place(h, n, d, k, count, src, out, scratch, vals);
+    place({ h, n, d, k, count, src, out, scratch, vals });
   }
   return finish(out, d, options);
 }
@@ -132,7 +132,7 @@ export async function readNpy(path: string, options: NpyOptions = {}): Promise<S
       if (await readFull(file, src) < src.length) {
         throw truncated(h, n, d, headerSize + k * s, loc);
       }
-      place(h, n, d, k, count, src, out, scratch, vals);
+      place({ h, n, d, k, count, src, out, scratch, vals });
     }
     return finish(out, d, { ...options, source });
   } finally {
@@ -141,15 +141,17 @@ export async function readNpy(path: string, options: NpyOptions = {}): Promise<S
 }
 
 function place(
-  h: NpyHeader,
-  n: number,
-  d: number,
-  k: number,
-  count: number,
-  src: Uint8Array,
-  out: Float64Array,
-  scratch: Uint8Array,
-  vals: Float64Array | undefined,
+  { h, n, d, k, count, src, out, scratch, vals }: {
+    h: NpyHeader;
+    n: number;
+    d: number;
+    k: number;
+    count: number;
+    src: Uint8Array;
+    out: Float64Array;
+    scratch: Uint8Array;
+    vals: Float64Array | undefined;
+  },
 ): void {
   if (!vals) {
     decodeNpyChunk(h.dtype, src, out.subarray(k, k + count), scratch);

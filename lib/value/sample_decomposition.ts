@@ -51,7 +51,7 @@ const TERMS: readonly SampleDecompositionTerm[] = [
  * Declared as an accessor so that a spread copy, which loses them, loses them in its type
  * too.
  */
-export declare class DecompositionReplicates {
+declare class DecompositionReplicates {
   /**
    * Every replicate's terms in draw order, NaN where the replicate failed (non-enumerable,
    * for plotting one term against another). Each term's finite replicates are also its
@@ -59,6 +59,8 @@ export declare class DecompositionReplicates {
    */
   get replicates(): Readonly<Record<SampleDecompositionTerm, Float64Array>>;
 }
+// Type-only: the class exists for the types alone (no runtime value to import).
+export type { DecompositionReplicates };
 
 /**
  * The decomposition at the optimum from samples: each term is the plug-in value between
