@@ -4,7 +4,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { logBase } from "./units.ts";
+import { logBase } from "../estimate/units.ts";
 
 function normalise(p: ArrayLike<number>, name: string): Float64Array {
   if (p.length === 0) throw new SaddleError("empty", `${name} is empty`, { parameter: name });

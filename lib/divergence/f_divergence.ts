@@ -19,7 +19,7 @@ import {
   logRatios,
   resolveMethod,
 } from "./integration.ts";
-import { logBase, rangeNote, scaleEstimate, unitOf } from "./units.ts";
+import { logBase, rangeNote, scaleEstimate, unitOf } from "../estimate/units.ts";
 import {
   type FDivergenceName,
   type FDivergenceSpec,

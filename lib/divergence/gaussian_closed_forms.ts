@@ -9,7 +9,7 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import { cholesky, choleskySolve, logDetCholesky, solveLower } from "../linalg/cholesky.ts";
 import { sqrtSymmetric } from "../linalg/eigen.ts";
 import { toMatrix } from "../linalg/matrix_input.ts";
-import { logBase } from "./units.ts";
+import { logBase } from "../estimate/units.ts";
 
 /** Mean and covariance of a Gaussian; d is inferred from `mean.length`. */
 export interface GaussianMoments {

@@ -15,7 +15,7 @@ import {
   logRatios,
   resolveMethod,
 } from "../divergence/integration.ts";
-import { logBase, rangeNote, scaleEstimate, unitOf } from "../divergence/units.ts";
+import { logBase, rangeNote, scaleEstimate, unitOf } from "../estimate/units.ts";
 import { withDisplay } from "../display/display.ts";
 import { type Estimate, exact, makeEstimate } from "../estimate/estimate.ts";
 import { htmlTable, textTable } from "../display/table.ts";

@@ -1,10 +1,11 @@
 /**
- * Units of divergence estimates: nats by default, bits on request.
+ * Units of information-valued estimates (divergences, entropies, the value of the game):
+ * nats by default, bits or another log base on request.
  *
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { type Estimate, type EstimateUnit, makeEstimate } from "../estimate/estimate.ts";
+import { type Estimate, type EstimateUnit, makeEstimate } from "./estimate.ts";
 
 /** The divisor that turns nats into `base` units (ln base), checking `base`. */
 export function logBase(base: number | undefined): number {
