@@ -1,22 +1,19 @@
 /**
  * Cholesky factorisation of symmetric positive definite matrices and what follows from it:
- * triangular solves, log-determinants, Mahalanobis norms. Matrices are row-major
- * `Float64Array`s of length `d * d`.
+ * triangular solves, log-determinants, inverses. Matrices are row-major `Float64Array`s of
+ * length `d * d`; the work runs on the backend of {@linkcode linalgBackend}.
  *
  * @module
  */
-import { SaddleError } from "../errors/saddle_error.ts";
+import { activeLinalg, type CholeskyOptions } from "./backend.ts";
 
-/** Options of {@linkcode cholesky}. */
-export interface CholeskyOptions {
-  /** Name of the matrix in error messages (default "matrix"). */
-  name?: string;
-}
+export type { CholeskyOptions } from "./backend.ts";
 
 /**
  * The lower-triangular `L` with `A = L Lᵀ` (row-major, upper triangle zero). Throws a
- * `singular` {@linkcode SaddleError} naming the pivot when `A` is not positive definite:
- * add a ridge (`regularization`) to the diagonal, or drop the collinear column.
+ * `singular` SaddleError naming the pivot when `A` is not positive definite (add a ridge,
+ * `regularization`, to the diagonal, or drop the collinear column), or naming the entry
+ * when one is not finite.
  *
  * @example
  * ```ts
@@ -31,48 +28,7 @@ export function cholesky(
   d: number,
   options: CholeskyOptions = {},
 ): Float64Array {
-  if (a.length !== d * d) {
-    throw new SaddleError(
-      "dimension-mismatch",
-      `expected ${d * d} entries for a ${d} x ${d} matrix, got ${a.length}`,
-      {
-        parameter: options.name ?? "matrix",
-      },
-    );
-  }
-  for (let i = 0; i < d * d; i++) {
-    if (!Number.isFinite(a[i])) {
-      const name = options.name ?? "matrix";
-      throw new SaddleError(
-        "singular",
-        `${name} has a non-finite entry (row ${Math.floor(i / d)}, column ${i % d} is ${a[i]}); ` +
-          "check the data or parameters it was computed from",
-        { parameter: name },
-      );
-    }
-  }
-  const L = new Float64Array(d * d);
-  for (let j = 0; j < d; j++) {
-    let s = a[j * d + j];
-    for (let k = 0; k < j; k++) s -= L[j * d + k] * L[j * d + k];
-    if (!(s > 0)) {
-      throw new SaddleError(
-        "singular",
-        `${options.name ?? "matrix"} is not positive definite (pivot ${j} is ${s}); ` +
-          "a constant or collinear column makes a covariance singular: add a ridge to its diagonal " +
-          "(the `regularization` option) or drop the column",
-        { parameter: options.name ?? "matrix" },
-      );
-    }
-    const ljj = Math.sqrt(s);
-    L[j * d + j] = ljj;
-    for (let i = j + 1; i < d; i++) {
-      let t = a[i * d + j];
-      for (let k = 0; k < j; k++) t -= L[i * d + k] * L[j * d + k];
-      L[i * d + j] = t / ljj;
-    }
-  }
-  return L;
+  return activeLinalg().cholesky(a, d, options);
 }
 
 /**
@@ -88,9 +44,7 @@ export function cholesky(
  * ```
  */
 export function logDetCholesky(L: ArrayLike<number>, d: number): number {
-  let s = 0;
-  for (let i = 0; i < d; i++) s += Math.log(L[i * d + i]);
-  return 2 * s;
+  return activeLinalg().logDetCholesky(L, d);
 }
 
 /**
@@ -110,12 +64,7 @@ export function solveLower(
   b: ArrayLike<number>,
   out: Float64Array = new Float64Array(d),
 ): Float64Array {
-  for (let i = 0; i < d; i++) {
-    let s = b[i];
-    for (let k = 0; k < i; k++) s -= L[i * d + k] * out[k];
-    out[i] = s / L[i * d + i];
-  }
-  return out;
+  return activeLinalg().solveLower(L, d, b, out);
 }
 
 /**
@@ -135,12 +84,7 @@ export function solveLowerTransposed(
   y: ArrayLike<number>,
   out: Float64Array = new Float64Array(d),
 ): Float64Array {
-  for (let i = d - 1; i >= 0; i--) {
-    let s = y[i];
-    for (let k = i + 1; k < d; k++) s -= L[k * d + i] * out[k];
-    out[i] = s / L[i * d + i];
-  }
-  return out;
+  return activeLinalg().solveLowerTransposed(L, d, y, out);
 }
 
 /**
@@ -156,11 +100,11 @@ export function solveLowerTransposed(
  * ```
  */
 export function choleskySolve(L: ArrayLike<number>, d: number, b: ArrayLike<number>): Float64Array {
-  return solveLowerTransposed(L, d, solveLower(L, d, b));
+  return activeLinalg().choleskySolve(L, d, b);
 }
 
 /**
- * `A⁻¹` (row-major) from the Cholesky factor of `A`.
+ * `A⁻¹` (row-major, exactly symmetric) from the Cholesky factor of `A`.
  *
  * @example
  * ```ts
@@ -171,21 +115,5 @@ export function choleskySolve(L: ArrayLike<number>, d: number, b: ArrayLike<numb
  * ```
  */
 export function choleskyInverse(L: ArrayLike<number>, d: number): Float64Array {
-  const inv = new Float64Array(d * d);
-  const e = new Float64Array(d);
-  for (let j = 0; j < d; j++) {
-    e.fill(0);
-    e[j] = 1;
-    const col = choleskySolve(L, d, e);
-    for (let i = 0; i < d; i++) inv[i * d + j] = col[i];
-  }
-  // Symmetrise: the two triangles differ by rounding only.
-  for (let i = 0; i < d; i++) {
-    for (let j = i + 1; j < d; j++) {
-      const m = 0.5 * (inv[i * d + j] + inv[j * d + i]);
-      inv[i * d + j] = m;
-      inv[j * d + i] = m;
-    }
-  }
-  return inv;
+  return activeLinalg().choleskyInverse(L, d);
 }

@@ -1,64 +1,66 @@
 /**
- * Symmetric eigendecomposition and functions of symmetric matrices (square root, log-det
- * of semi-definite matrices), over ml-matrix's Householder tridiagonalisation + QL.
+ * Symmetric eigendecomposition and functions of symmetric matrices: the positive
+ * semi-definite square root and the trace of the square root of a product (Fréchet
+ * distance). Runs on the backend of {@linkcode linalgBackend}: LAPACK's `dsyevd`, or
+ * Householder tridiagonalisation + implicit QL in TypeScript.
  *
  * @module
  */
-import { EigenvalueDecomposition, Matrix } from "ml-matrix";
-import { SaddleError } from "../errors/saddle_error.ts";
+import {
+  activeLinalg,
+  type SymmetricEigen,
+  type SymmetricEigenOptions,
+  type SymmetricEigenValues,
+  type TraceSqrtProductOptions,
+} from "./backend.ts";
 
-/** Eigenvalues (ascending) and eigenvectors (column `k` of the row-major `vectors`). */
-export interface SymmetricEigen {
-  /** Eigenvalues in ascending order. */
-  readonly values: Float64Array;
-  /** Row-major `d x d`; column `k` is the unit eigenvector of `values[k]`. */
-  readonly vectors: Float64Array;
-}
+export type {
+  SymmetricEigen,
+  SymmetricEigenOptions,
+  SymmetricEigenValues,
+  TraceSqrtProductOptions,
+} from "./backend.ts";
 
 /**
- * Eigendecomposition of a symmetric `d x d` matrix (the lower triangle is mirrored first,
- * so tiny asymmetries from rounding do not matter).
+ * Eigendecomposition of a symmetric `d x d` matrix: values ascending and, unless
+ * `vectors: false` (faster), the unit eigenvectors as the columns of a row-major matrix.
+ * Only the lower triangle is read (it is mirrored), so rounding asymmetries do not
+ * matter. A non-finite entry is a `non-finite` SaddleError.
  *
  * @example
  * ```ts
  * import { symmetricEigen } from "./eigen.ts";
  * import assert from "node:assert/strict";
- * const { values } = symmetricEigen(new Float64Array([2, 1, 1, 2]), 2);
+ * const { values, vectors } = symmetricEigen(new Float64Array([2, 1, 1, 2]), 2);
  * assert.ok(Math.abs(values[0] - 1) < 1e-14 && Math.abs(values[1] - 3) < 1e-14);
+ * assert.ok(Math.abs(Math.abs(vectors[0]) - Math.SQRT1_2) < 1e-14);
+ * const only = symmetricEigen(new Float64Array([2, 1, 1, 2]), 2, { vectors: false });
+ * assert.ok(Math.abs(only.values[1] - 3) < 1e-14);
  * ```
  */
-export function symmetricEigen(a: ArrayLike<number>, d: number): SymmetricEigen {
-  if (a.length !== d * d) {
-    throw new SaddleError("dimension-mismatch", `expected ${d * d} entries, got ${a.length}`, {
-      parameter: "matrix",
-    });
-  }
-  const rows: number[][] = [];
-  for (let i = 0; i < d; i++) {
-    const r = new Array<number>(d);
-    for (let j = 0; j < d; j++) r[j] = i >= j ? a[i * d + j] : a[j * d + i];
-    rows.push(r);
-  }
-  for (const r of rows) {
-    for (const v of r) {
-      if (!Number.isFinite(v)) {
-        throw new SaddleError("non-finite", "matrix has a non-finite entry", {
-          parameter: "matrix",
-        });
-      }
-    }
-  }
-  const evd = new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: true });
-  const raw = evd.realEigenvalues;
-  const V = evd.eigenvectorMatrix;
-  const order = raw.map((_, i) => i).sort((i, j) => raw[i] - raw[j]);
-  const values = new Float64Array(d);
-  const vectors = new Float64Array(d * d);
-  for (let k = 0; k < d; k++) {
-    values[k] = raw[order[k]];
-    for (let i = 0; i < d; i++) vectors[i * d + k] = V.get(i, order[k]);
-  }
-  return { values, vectors };
+export function symmetricEigen(
+  a: ArrayLike<number>,
+  d: number,
+  options?: { vectors?: true },
+): SymmetricEigen;
+/** Eigenvalues only (ascending). */
+export function symmetricEigen(
+  a: ArrayLike<number>,
+  d: number,
+  options: { vectors: false },
+): SymmetricEigenValues;
+/** Values, and vectors unless `options.vectors` is false. */
+export function symmetricEigen(
+  a: ArrayLike<number>,
+  d: number,
+  options?: SymmetricEigenOptions,
+): SymmetricEigen | SymmetricEigenValues;
+export function symmetricEigen(
+  a: ArrayLike<number>,
+  d: number,
+  options: SymmetricEigenOptions = {},
+): SymmetricEigen | SymmetricEigenValues {
+  return activeLinalg().symmetricEigen(a, d, options);
 }
 
 /**
@@ -76,31 +78,37 @@ export function symmetricEigen(a: ArrayLike<number>, d: number): SymmetricEigen 
  * ```
  */
 export function sqrtSymmetric(a: ArrayLike<number>, d: number, tolerance = 1e-10): Float64Array {
-  const { values, vectors } = symmetricEigen(a, d);
-  const top = Math.max(Math.abs(values[d - 1]), Math.abs(values[0]));
-  const root = new Float64Array(d);
-  for (let k = 0; k < d; k++) {
-    if (values[k] < -tolerance * top) {
-      throw new SaddleError(
-        "singular",
-        `matrix has eigenvalue ${values[k]} < 0: not positive semi-definite`,
-        { parameter: "matrix" },
-      );
-    }
-    // Eigenvalues within rounding of 0 (|λ| <= 4 d ε λ_max) are 0: their square root
-    // (~1e-8 λ_max^½) would otherwise be pure rounding noise.
-    root[k] = Math.abs(values[k]) <= 4 * d * Number.EPSILON * top
-      ? 0
-      : Math.sqrt(Math.max(values[k], 0));
-  }
-  const out = new Float64Array(d * d);
-  for (let i = 0; i < d; i++) {
-    for (let j = i; j < d; j++) {
-      let s = 0;
-      for (let k = 0; k < d; k++) s += vectors[i * d + k] * root[k] * vectors[j * d + k];
-      out[i * d + j] = s;
-      out[j * d + i] = s;
-    }
-  }
-  return out;
+  return activeLinalg().sqrtSymmetric(a, d, tolerance);
+}
+
+/**
+ * `tr((A^½ B A^½)^½)` for symmetric positive semi-definite `A` and `B` (the cross term of
+ * the Fréchet distance between Gaussians). Computed from symmetric factorisations only:
+ * `A = V Λ Vᵀ`, then the eigenvalues of the symmetric `Λ^½ Vᵀ B V Λ^½`, which are those of
+ * `A^½ B A^½`. Singular `A` or `B` is fine (their zero eigenvalues contribute 0).
+ * Eigenvalues above `-tolerance · scale` (default tolerance 1e-10; scale `λ_max(A)` for `A`
+ * and `λ_max(A) Σ|B_ii|` for the product) are rounding and count as 0; below that the input
+ * is not positive semi-definite and a `singular` SaddleError is thrown.
+ *
+ * References: Dowson & Landau 1982, "The Fréchet distance between multivariate normal
+ * distributions".
+ *
+ * @example
+ * ```ts
+ * import { traceSqrtProduct } from "./eigen.ts";
+ * import assert from "node:assert/strict";
+ * // Commuting diagonal matrices: tr((AB)^½) = √(4·1) + √(1·9) = 5.
+ * const t = traceSqrtProduct([4, 0, 0, 1], [1, 0, 0, 9], 2);
+ * assert.ok(Math.abs(t - 5) < 1e-12);
+ * // Orthogonal supports: the product is 0.
+ * assert.equal(traceSqrtProduct([1, 0, 0, 0], [0, 0, 0, 1], 2), 0);
+ * ```
+ */
+export function traceSqrtProduct(
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  d: number,
+  options: TraceSqrtProductOptions = {},
+): number {
+  return activeLinalg().traceSqrtProduct(a, b, d, options);
 }

@@ -1,9 +1,13 @@
 /**
- * Linear algebra on row-major `Float64Array` matrices: Cholesky, triangular solves,
- * log-determinants, symmetric eigendecomposition and square roots, sample moments.
+ * Linear algebra on row-major `Float64Array` matrices: products (gemm, syrk), Cholesky,
+ * triangular solves, log-determinants, symmetric eigendecomposition, square roots and the
+ * trace of a square-root product, sample moments. Native BLAS/LAPACK through Deno's FFI when
+ * available (see {@linkcode linalgBackend}), pure TypeScript otherwise.
  *
  * @module
  */
+export * from "./backend.ts";
+export * from "./products.ts";
 export * from "./cholesky.ts";
 export * from "./eigen.ts";
 export * from "./moments.ts";

@@ -1,0 +1,56 @@
+/**
+ * The low-level kernels a linear-algebra backend provides. Row-major `Float64Array`s, no
+ * validation (the public functions validate first, identically for every backend).
+ *
+ * @module
+ */
+
+/** Arguments of {@linkcode Kernels.gemm}: `C = alpha op(A) op(B) + beta C`, row-major. */
+export interface GemmArgs {
+  m: number;
+  n: number;
+  k: number;
+  transposeA: boolean;
+  transposeB: boolean;
+  alpha: number;
+  beta: number;
+  a: Float64Array;
+  b: Float64Array;
+  /** `m x n`, updated in place. */
+  c: Float64Array;
+}
+
+/** One backend's kernels. */
+export interface Kernels {
+  /** "native" or "typescript". */
+  readonly name: "native" | "typescript";
+  /** `C = alpha op(A) op(B) + beta C` (row-major, in place). */
+  gemm(args: GemmArgs): void;
+  /**
+   * Full symmetric `alpha AᵀA` (`d x d`, `outer` false) or `alpha AAᵀ` (`n x n`, `outer`
+   * true) of the row-major `n x d` matrix `a`, written into `c` (both triangles).
+   */
+  syrk(a: Float64Array, n: number, d: number, outer: boolean, alpha: number, c: Float64Array): void;
+  /**
+   * In-place lower Cholesky factor of the symmetric `d x d` matrix in `a` (upper triangle
+   * zeroed on success). Returns 0, or `j + 1` when pivot `j` is not positive.
+   */
+  potrf(a: Float64Array, d: number): number;
+  /**
+   * Solve `L X = B` (`transposed` false) or `Lᵀ X = B` in place for `B` row-major
+   * `d x nrhs` and lower-triangular `L`.
+   */
+  trsm(L: Float64Array, d: number, b: Float64Array, nrhs: number, transposed: boolean): void;
+  /** `A⁻¹` (full, row-major) from the lower Cholesky factor `L` of `A`. */
+  potri(L: Float64Array, d: number): Float64Array;
+  /**
+   * Eigenvalues ascending of the symmetric matrix whose lower triangle is in `a` (`a` is
+   * destroyed); with `vectors`, the row-major `d x d` matrix whose column `k` is the unit
+   * eigenvector of value `k`. Returns null when the iteration does not converge.
+   */
+  syev(
+    a: Float64Array,
+    d: number,
+    vectors: boolean,
+  ): { values: Float64Array; vectors: Float64Array | null } | null;
+}
