@@ -3,6 +3,11 @@
 stdin: {"a": [...d*d SPD], "d": d, "b": [...d], "data": [...n*d], "n": n, "weights": [...n]}
 stdout: {"cholesky", "logdet", "solve", "inverse", "eigenvalues", "sqrtm", "cov", "cov_w",
          "mean"} (matrices row-major)
+
+With {"kernels": true, "x": [...n*d], "n": n, "d": d, "a": [...d*d symmetric],
+"b": [...d*d PSD], "c": [...d*d PSD]} instead: {"syrk" (X^T X), "gram" (X X^T),
+"gemm" (A B), "gemm_tn" (X^T X via matmul of the transpose), "eigenvalues", "vectors"
+(numpy.linalg.eigh), "trace_sqrt" (tr sqrtm(sqrtm(B) C sqrtm(B)), scipy), "cholesky" (of B)}.
 """
 import json
 import sys
@@ -11,8 +16,34 @@ import numpy as np
 from scipy.linalg import sqrtm
 
 
+def kernels(req):
+    n, d = int(req["n"]), int(req["d"])
+    X = np.asarray(req["x"], dtype=float).reshape(n, d)
+    A = np.asarray(req["a"], dtype=float).reshape(d, d)
+    B = np.asarray(req["b"], dtype=float).reshape(d, d)
+    C = np.asarray(req["c"], dtype=float).reshape(d, d)
+    w, V = np.linalg.eigh(A)
+    rb = np.real(sqrtm(B))
+    out = {
+        "syrk": (X.T @ X).ravel().tolist(),
+        "gram": (X @ X.T).ravel().tolist(),
+        "gemm": (A @ B).ravel().tolist(),
+        "eigenvalues": w.tolist(),
+        "vectors": V.ravel().tolist(),
+        "trace_sqrt": float(np.trace(np.real(sqrtm(rb @ C @ rb)))),
+    }
+    try:
+        out["cholesky"] = np.linalg.cholesky(B).ravel().tolist()
+    except np.linalg.LinAlgError:
+        out["cholesky"] = None
+    json.dump(out, sys.stdout)
+
+
 def main():
     req = json.load(sys.stdin)
+    if req.get("kernels"):
+        kernels(req)
+        return
     d = int(req["d"])
     A = np.asarray(req["a"], dtype=float).reshape(d, d)
     b = np.asarray(req["b"], dtype=float)
