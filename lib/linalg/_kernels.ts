@@ -54,3 +54,19 @@ export interface Kernels {
     vectors: boolean,
   ): { values: Float64Array; vectors: Float64Array | null } | null;
 }
+
+/**
+ * Copy the lower triangle of the row-major `d x d` matrix `c` onto its upper triangle, in
+ * 64 x 64 tiles so that the strided side stays in cache.
+ */
+export function mirrorLower(c: Float64Array, d: number): void {
+  const B = 64;
+  for (let i0 = 0; i0 < d; i0 += B) {
+    for (let j0 = i0; j0 < d; j0 += B) {
+      const i1 = Math.min(d, i0 + B), j1 = Math.min(d, j0 + B);
+      for (let i = i0; i < i1; i++) {
+        for (let j = Math.max(j0, i + 1); j < j1; j++) c[i * d + j] = c[j * d + i];
+      }
+    }
+  }
+}

@@ -8,7 +8,7 @@
  *
  * @module
  */
-import type { GemmArgs, Kernels } from "./_kernels.ts";
+import { type GemmArgs, type Kernels, mirrorLower } from "./_kernels.ts";
 
 const ROW_MAJOR = 101, NO_TRANS = 111, TRANS = 112, LOWER = 122, LEFT = 141, NON_UNIT = 131;
 
@@ -216,7 +216,6 @@ function makeKernels(s: Sym): Kernels {
   ) {
     const size = outer ? n : d;
     if (size === 0) return;
-    c.fill(0, 0, size * size);
     s.cblas_dsyrk!(
       ROW_MAJOR,
       LOWER,
@@ -230,9 +229,7 @@ function makeKernels(s: Sym): Kernels {
       c,
       size,
     );
-    for (let i = 0; i < size; i++) {
-      for (let j = i + 1; j < size; j++) c[i * size + j] = c[j * size + i];
-    }
+    mirrorLower(c, size);
   }
 
   function potrf(a: Float64Array, d: number): number {
@@ -272,7 +269,7 @@ function makeKernels(s: Sym): Kernels {
     // (column-major), i.e. the row-major lower triangle.
     s.dpotri_!(U, int(d), x, int(d), info, 1n);
     if (info[0] !== 0) throw new Error(`dpotri_ failed (info ${info[0]})`);
-    for (let i = 0; i < d; i++) for (let j = i + 1; j < d; j++) x[i * d + j] = x[j * d + i];
+    mirrorLower(x, d);
     return x;
   }
 

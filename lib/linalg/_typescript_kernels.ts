@@ -6,7 +6,7 @@
  *
  * @module
  */
-import type { GemmArgs, Kernels } from "./_kernels.ts";
+import { type GemmArgs, type Kernels, mirrorLower } from "./_kernels.ts";
 
 /** Depth and width of the gemm/syrk tiles (a 128 x 256 tile of B is 256 KiB). */
 const TILE_K = 128;
@@ -75,6 +75,7 @@ function syrk(
       }
     }
   }
+  // Upper triangle filled: copy it to the lower one (the transpose of mirrorLower's job).
   for (let x = 0; x < d; x++) for (let y = x + 1; y < d; y++) c[y * d + x] = c[x * d + y];
 }
 
