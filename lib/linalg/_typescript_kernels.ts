@@ -29,9 +29,20 @@ function gemm(g: GemmArgs): void {
       const p1 = Math.min(k, p0 + TILE_K);
       for (let i = 0; i < m; i++) {
         const ci = i * n;
-        for (let p = p0; p < p1; p++) {
+        let p = p0;
+        // Four rows of B at a time: one pass over the row of C per four products.
+        for (; p + 4 <= p1; p += 4) {
+          const a0 = alpha * (ta ? a[p * m + i] : a[i * k + p]);
+          const a1 = alpha * (ta ? a[(p + 1) * m + i] : a[i * k + p + 1]);
+          const a2 = alpha * (ta ? a[(p + 2) * m + i] : a[i * k + p + 2]);
+          const a3 = alpha * (ta ? a[(p + 3) * m + i] : a[i * k + p + 3]);
+          const b0 = p * n, b1 = b0 + n, b2 = b1 + n, b3 = b2 + n;
+          for (let j = j0; j < j1; j++) {
+            c[ci + j] += a0 * b[b0 + j] + a1 * b[b1 + j] + a2 * b[b2 + j] + a3 * b[b3 + j];
+          }
+        }
+        for (; p < p1; p++) {
           const aip = alpha * (ta ? a[p * m + i] : a[i * k + p]);
-          if (aip === 0) continue;
           const bp = p * n;
           for (let j = j0; j < j1; j++) c[ci + j] += aip * b[bp + j];
         }
@@ -60,23 +71,40 @@ function syrk(
     }
     return;
   }
-  // (AᵀA) = Σ_rows outer(row, row): upper triangle, tiled over columns so a tile of C
-  // stays in cache while the rows stream past.
+  // (AᵀA) = Σ_rows outer(row, row), lower triangle, in square tiles of C (128 x 128,
+  // 128 KiB: stays in cache while all the rows stream past), then mirrored.
   c.fill(0, 0, d * d);
-  for (let b0 = 0; b0 < d; b0 += TILE_N) {
-    const b1 = Math.min(d, b0 + TILE_N);
-    for (let r = 0; r < n; r++) {
-      const row = r * d;
-      for (let x = 0; x < b1; x++) {
-        const v = alpha * a[row + x];
-        if (v === 0) continue;
-        const cx = x * d;
-        for (let y = Math.max(x, b0); y < b1; y++) c[cx + y] += v * a[row + y];
+  const T = TILE_K;
+  for (let y0 = 0; y0 < d; y0 += T) {
+    const y1 = Math.min(d, y0 + T);
+    for (let x0 = 0; x0 <= y0; x0 += T) {
+      const x1 = Math.min(d, x0 + T);
+      // Four rows at a time: one pass over the tile of C per four rows of A.
+      let r = 0;
+      for (; r + 4 <= n; r += 4) {
+        const r0 = r * d, r1 = r0 + d, r2 = r1 + d, r3 = r2 + d;
+        for (let y = y0; y < y1; y++) {
+          const v0 = alpha * a[r0 + y], v1 = alpha * a[r1 + y];
+          const v2 = alpha * a[r2 + y], v3 = alpha * a[r3 + y];
+          const cy = y * d;
+          const xe = Math.min(x1, y + 1);
+          for (let x = x0; x < xe; x++) {
+            c[cy + x] += v0 * a[r0 + x] + v1 * a[r1 + x] + v2 * a[r2 + x] + v3 * a[r3 + x];
+          }
+        }
+      }
+      for (; r < n; r++) {
+        const row = r * d;
+        for (let y = y0; y < y1; y++) {
+          const v = alpha * a[row + y];
+          const cy = y * d;
+          const xe = Math.min(x1, y + 1);
+          for (let x = x0; x < xe; x++) c[cy + x] += v * a[row + x];
+        }
       }
     }
   }
-  // Upper triangle filled: copy it to the lower one (the transpose of mirrorLower's job).
-  for (let x = 0; x < d; x++) for (let y = x + 1; y < d; y++) c[y * d + x] = c[x * d + y];
+  mirrorLower(c, d);
 }
 
 function potrf(a: Float64Array, d: number): number {

@@ -266,6 +266,14 @@ Deno.test("linalg: both backends throw the same SaddleErrors, naming the operati
   if (messages.length === 2) assert.deepEqual(messages[1], messages[0]);
 });
 
+Deno.test("linalg: the native backend loads where CI requires it (SADDLEKIT_REQUIRE_NATIVE=1)", {
+  ignore: Deno.env.get("SADDLEKIT_REQUIRE_NATIVE") !== "1" ||
+    Deno.env.get("SADDLEKIT_BLAS")?.toLowerCase() === "off",
+}, () => {
+  assert.ok(native, `native backend required but unavailable: ${nativeReason}`);
+  assert.equal(linalgBackend().name, "native");
+});
+
 Deno.test("linalgBackend: names the backend, why, and displays as a table", () => {
   const b = linalgBackend();
   const off = Deno.env.get("SADDLEKIT_BLAS")?.toLowerCase() === "off";
