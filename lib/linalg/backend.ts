@@ -121,7 +121,21 @@ function current(): State {
   return state ??= choose();
 }
 
-/** The operations of the backend in use (chosen on first use, then fixed). */
+/**
+ * The operations of the backend in use (chosen on first use, then fixed), as one object:
+ * the same functions as the free ones (`gemm`, `cholesky`, ...), handy to pass around.
+ * On the native backend, problems below a few thousand multiply-adds stay in TypeScript,
+ * where the FFI call would cost more than the arithmetic.
+ *
+ * @example
+ * ```ts
+ * import { activeLinalg, linalgBackend } from "./backend.ts";
+ * import assert from "node:assert/strict";
+ * const la = activeLinalg();
+ * assert.equal(la.name, linalgBackend().name);
+ * assert.deepEqual(Array.from(la.cholesky([4, 2, 2, 3], 2)), [2, 0, 1, Math.SQRT2]);
+ * ```
+ */
 export function activeLinalg(): Linalg {
   return current().active;
 }
