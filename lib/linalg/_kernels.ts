@@ -20,6 +20,17 @@ export interface GemmArgs {
   c: Float64Array;
 }
 
+/** Arguments of {@linkcode Kernels.syrk}. */
+export interface SyrkArgs {
+  a: Float64Array;
+  n: number;
+  d: number;
+  outer: boolean;
+  alpha: number;
+  /** `d x d` (or `n x n` with `outer`), overwritten. */
+  c: Float64Array;
+}
+
 /** One backend's kernels. */
 export interface Kernels {
   /** "native" or "typescript". */
@@ -30,7 +41,7 @@ export interface Kernels {
    * Full symmetric `alpha AᵀA` (`d x d`, `outer` false) or `alpha AAᵀ` (`n x n`, `outer`
    * true) of the row-major `n x d` matrix `a`, written into `c` (both triangles).
    */
-  syrk(a: Float64Array, n: number, d: number, outer: boolean, alpha: number, c: Float64Array): void;
+  syrk(args: SyrkArgs): void;
   /**
    * In-place lower Cholesky factor of the symmetric `d x d` matrix in `a` (upper triangle
    * zeroed on success). Returns 0, or `j + 1` when pivot `j` is not positive.

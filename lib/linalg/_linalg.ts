@@ -220,7 +220,7 @@ export function makeLinalg(k: Kernels): Linalg {
     checkFinite("syrk", "alpha", [alpha], 1);
     const size = o.outer ? o.n : o.d;
     const c = new Float64Array(size * size);
-    k.syrk(f64(a), o.n, o.d, o.outer ?? false, alpha, c);
+    k.syrk({ a: f64(a), n: o.n, d: o.d, outer: o.outer ?? false, alpha, c });
     return c;
   }
 
@@ -369,7 +369,7 @@ export function makeLinalg(k: Kernels): Linalg {
       for (let i = 0; i < d; i++) v[i * d + j] *= q;
     }
     const out = new Float64Array(d * d);
-    k.syrk(v, d, d, true, 1, out);
+    k.syrk({ a: v, n: d, d, outer: true, alpha: 1, c: out });
     return out;
   }
 

@@ -8,7 +8,7 @@
  *
  * @module
  */
-import { type GemmArgs, type Kernels, mirrorLower } from "./_kernels.ts";
+import { type GemmArgs, type Kernels, mirrorLower, type SyrkArgs } from "./_kernels.ts";
 
 const ROW_MAJOR = 101, NO_TRANS = 111, TRANS = 112, LOWER = 122, LEFT = 141, NON_UNIT = 131;
 
@@ -206,14 +206,7 @@ function makeKernels(s: Sym): Kernels {
     );
   }
 
-  function syrk(
-    a: Float64Array,
-    n: number,
-    d: number,
-    outer: boolean,
-    alpha: number,
-    c: Float64Array,
-  ) {
+  function syrk({ a, n, d, outer, alpha, c }: SyrkArgs) {
     const size = outer ? n : d;
     if (size === 0) return;
     s.cblas_dsyrk!(

@@ -6,7 +6,7 @@
  *
  * @module
  */
-import { type GemmArgs, type Kernels, mirrorLower } from "./_kernels.ts";
+import { type GemmArgs, type Kernels, mirrorLower, type SyrkArgs } from "./_kernels.ts";
 
 /** Depth and width of the gemm/syrk tiles (a 128 x 256 tile of B is 256 KiB). */
 const TILE_K = 128;
@@ -51,14 +51,7 @@ function gemm(g: GemmArgs): void {
   }
 }
 
-function syrk(
-  a: Float64Array,
-  n: number,
-  d: number,
-  outer: boolean,
-  alpha: number,
-  c: Float64Array,
-): void {
+function syrk({ a, n, d, outer, alpha, c }: SyrkArgs): void {
   if (outer) {
     // (A Aᵀ)_ij = row i · row j: contiguous dot products.
     for (let i = 0; i < n; i++) {

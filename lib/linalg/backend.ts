@@ -4,7 +4,7 @@
  *
  * @module
  */
-import { htmlTable, textTable, withDisplay } from "../estimate/mod.ts";
+import { htmlTable, textTable, withDisplay } from "../display/mod.ts";
 import type { GemmArgs, Kernels } from "./_kernels.ts";
 import { type Linalg, makeLinalg } from "./_linalg.ts";
 import { loadNativeKernels, type NativeInfo } from "./_native_kernels.ts";
@@ -54,7 +54,7 @@ function dispatch(native: Kernels, ts: Kernels): Kernels {
   return {
     name: "native",
     gemm: (g: GemmArgs) => pick(g.m * g.n * g.k).gemm(g),
-    syrk: (a, n, d, outer, alpha, c) => pick(n * d * d).syrk(a, n, d, outer, alpha, c),
+    syrk: (args) => pick(args.n * args.d * args.d).syrk(args),
     potrf: (a, d) => pick(d * d * d).potrf(a, d),
     trsm: (L, d, b, nrhs, t) => pick(d * d * nrhs).trsm(L, d, b, nrhs, t),
     potri: (L, d) => pick(d * d * d).potri(L, d),
