@@ -22,4 +22,6 @@ export * from "./lib/density/mod.ts";
 export * from "./lib/discriminator/mod.ts";
 export * from "./lib/value/mod.ts";
 export * from "./lib/divergence/mod.ts";
+export * from "./lib/metrics/mod.ts";
+export * from "./lib/game/mod.ts";
 export * from "./lib/plot/mod.ts";

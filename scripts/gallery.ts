@@ -110,4 +110,56 @@ if (import.meta.main) {
       { density: pModel, samples: fake, role: "generated" },
     ], { labels, units, seed: SEED, title: "Gaussian-mixture fits against the samples" }),
   );
+
+  // Games and training dynamics: the Dirac game (Mescheder et al. 2018) and a small GAN on
+  // the ring of 8 Gaussians.
+  const dirac = sk.diracGame();
+  const axes = {
+    x: { parameter: "theta", range: [-2, 2], points: 41 },
+    y: { parameter: "psi", range: [-2, 2], points: 41 },
+  } as const;
+  const runs = (["simultaneous", "alternating"] as const).map((updates) =>
+    sk.simulateTraining(dirac, {
+      start: { theta: [1], phi: [0] },
+      steps: 400,
+      learningRate: 0.2,
+      updates,
+      k: 1,
+    })
+  );
+  await write(
+    "value_surface",
+    sk.plotValueSurface(sk.valueSurface(dirac, axes), { trajectories: [runs[0]] }),
+  );
+  await write(
+    "gradient_field",
+    sk.plotGradientField(
+      sk.gradientFieldGrid(dirac, {
+        ...axes,
+        x: { ...axes.x, points: 15 },
+        y: { ...axes.y, points: 15 },
+      }),
+      {
+        trajectories: runs,
+      },
+    ),
+  );
+  await write(
+    "eigenvalues",
+    sk.plotEigenvalues(sk.stability(sk.diracGame({ r1: 0.6 }), { learningRate: 0.3 })),
+  );
+  const ring = sk.ringOfGaussians({ sd: 0.1 });
+  const lab = sk.trainNeuralGan({
+    data: ring,
+    steps: 600,
+    hidden: [16, 16],
+    activation: "leaky-relu",
+    learningRate: 2e-3,
+    recordEvery: 200,
+    theory: false,
+    seed: SEED,
+  });
+  await write("training_curves", sk.plotTrainingCurves(lab));
+  await write("phase_snapshots", sk.plotPhaseSnapshots(lab));
+  await write("mode_coverage", sk.plotModeCoverage(lab.snapshots.at(-1)!.coverage!));
 }

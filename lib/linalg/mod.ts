@@ -12,3 +12,5 @@ export * from "./cholesky.ts";
 export * from "./eigen.ts";
 export * from "./moments.ts";
 export * from "./matrix_input.ts";
+export * from "./general_eigen.ts";
+export * from "./lu_solve.ts";

@@ -36,6 +36,12 @@
  * | bootstrap distribution of an Estimate | {@linkcode plotBootstrap} |
  * | fitted density against its samples (1-D, 2-D) | {@linkcode plotFit} |
  * | generator objectives: minimax vs non-saturating gradients | {@linkcode plotGeneratorObjectives} |
+ * | value surface of a game: contours, saddle, best responses | {@linkcode plotValueSurface} |
+ * | gradient field of a game with trajectories | {@linkcode plotGradientField} |
+ * | training curves with the equilibrium values | {@linkcode plotTrainingCurves} |
+ * | phases of training: p_data, p_g and D at chosen steps | {@linkcode plotPhaseSnapshots} |
+ * | Jacobian eigenvalues with the stability region | {@linkcode plotEigenvalues} |
+ * | per-mode coverage bars | {@linkcode plotModeCoverage} |
  *
  * New figures are small additions: {@linkcode composeFigure} takes panels of Plot layers
  * and a legend; {@linkcode axisLabel}, {@linkcode lineStyle}, {@linkcode referenceY} and
@@ -115,3 +121,18 @@ export {
   type GeneratorObjectivesPlotOptions,
   plotGeneratorObjectives,
 } from "./generator_objectives_plot.ts";
+export { plotValueSurface, type ValueSurfacePlotOptions } from "./value_surface_plot.ts";
+export { type GradientFieldPlotOptions, plotGradientField } from "./gradient_field_plot.ts";
+export { plotTrainingCurves, type TrainingCurvesPlotOptions } from "./training_curves_plot.ts";
+export { type PhaseSnapshotsPlotOptions, plotPhaseSnapshots } from "./phase_snapshots_plot.ts";
+export { type EigenvaluePlotOptions, plotEigenvalues } from "./eigenvalue_plot.ts";
+export { type ModeCoveragePlotOptions, plotModeCoverage } from "./mode_coverage_plot.ts";
+export type {
+  GradientFieldGrid,
+  NeuralRun,
+  NeuralSnapshot,
+  Simulation,
+  Stability,
+  ValueSurface,
+} from "../game/mod.ts";
+export type { ModeCoverage } from "../metrics/mod.ts";

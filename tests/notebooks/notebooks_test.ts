@@ -112,6 +112,73 @@ const EXPECTED: Record<string, () => Promise<Record<string, unknown>>> = {
       sampleValueLower: sampleTerms(real, fake, SEED, 40).sampleValueCi![0],
     };
   },
+  "03_training_dynamics.ipynb": () => {
+    const SEED = 3;
+    const dirac = sk.diracGame();
+    const axes = {
+      x: { parameter: "theta", range: [-2, 2], points: 41 },
+      y: { parameter: "psi", range: [-2, 2], points: 41 },
+    } as const;
+    const surface = sk.valueSurface(dirac, axes);
+    const runOpts = {
+      start: { theta: [1], phi: [0] },
+      steps: 400,
+      learningRate: 0.2,
+      k: 1,
+    } as const;
+    const simultaneous = sk.simulateTraining(dirac, { ...runOpts, updates: "simultaneous" });
+    const alternating = sk.simulateTraining(dirac, { ...runOpts, updates: "alternating" });
+    const withR1 = sk.simulateTraining(sk.diracGame({ r1: 0.5 }), {
+      ...runOpts,
+      updates: "simultaneous",
+    });
+    const stab = sk.stability(dirac, { learningRate: 0.2 });
+    const stabR1 = sk.stability(sk.diracGame({ r1: 0.5 }), { learningRate: 0.2 });
+    const wind = sk.locationGame({ mean: 0, sd: 1 });
+    const profile = sk.optimalProfile(wind, {
+      theta: { parameter: "mu", range: [-3, 3], points: 13 },
+    });
+    const windRun = sk.simulateTraining(wind, {
+      start: { theta: [-2.3], phi: [0, 0] },
+      steps: 400,
+      learningRate: 0.3,
+      updates: "alternating",
+      k: 5,
+      loss: "non-saturating",
+    });
+    const common = {
+      data: sk.ringOfGaussians({ sd: 0.1 }),
+      steps: 1500,
+      hidden: [16, 16],
+      activation: "leaky-relu",
+      recordEvery: 500,
+      seed: SEED,
+    } as const;
+    const lastC = sk.trainNeuralGan({
+      ...common,
+      learningRate: { generator: 5e-3, discriminator: 5e-4 },
+    }).snapshots.at(-1)!;
+    const lastK = sk.trainNeuralGan({ ...common, learningRate: 2e-3, k: 2, schedule: "linear" })
+      .snapshots.at(-1)!;
+    return Promise.resolve({
+      saddle: [surface.saddles[0].x, surface.saddles[0].y],
+      saddleValue: surface.saddles[0].value,
+      verdicts: [simultaneous.verdict, alternating.verdict, withR1.verdict],
+      alternatingPeriod: alternating.period,
+      eigenvaluesIm: stab.eigenvalues.map((e) => e.im),
+      radius: [stab.simultaneous.spectralRadius, stab.alternating.spectralRadius],
+      eigenvaluesR1Re: stabR1.eigenvalues.map((e) => e.re),
+      profileArgmin: profile.argmin,
+      profileMin: profile.min,
+      windVerdict: windRun.verdict,
+      windFinalDistance: windRun.finalDistance,
+      collapsedModes: lastC.coverage!.modesHit.value,
+      coveringModes: lastK.coverage!.modesHit.value,
+      coveringShareWithin: lastK.coverage!.shareWithin.value,
+      coveringJsd: lastK.jsd!.value,
+      coveringMeanD: [lastK.meanDReal, lastK.meanDFake],
+    });
+  },
 };
 
 Deno.test("notebooks: nbformat 4, Deno kernelspec, ../mod.ts import, figure and record cells", async () => {

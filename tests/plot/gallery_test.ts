@@ -11,11 +11,17 @@ const FIGURES = [
   "densities_1d",
   "discriminator_map",
   "divergences",
+  "eigenvalues",
   "fit_1d",
   "fit_2d",
   "generator_objectives",
+  "gradient_field",
+  "mode_coverage",
   "objective",
+  "phase_snapshots",
   "reliability",
+  "training_curves",
+  "value_surface",
 ];
 
 Deno.test("gallery: scripts/gallery.ts writes every figure, identical to docs/gallery", async () => {

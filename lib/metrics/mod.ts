@@ -1,0 +1,6 @@
+/**
+ * Sample-based metrics of generated data.
+ *
+ * @module
+ */
+export * from "./mode_coverage.ts";
