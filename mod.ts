@@ -25,3 +25,4 @@ export * from "./lib/divergence/mod.ts";
 export * from "./lib/metrics/mod.ts";
 export * from "./lib/game/mod.ts";
 export * from "./lib/plot/mod.ts";
+export * from "./lib/files/mod.ts";

@@ -16,6 +16,8 @@ export interface CvScan {
   readonly factors: Float64Array;
   /** Mean leave-one-out log-likelihood per held-out point (nats). */
   readonly scores: Float64Array;
+  /** Held-out points that had exact copies elsewhere in the data (left out with them). */
+  readonly tied: number;
 }
 
 /**
@@ -23,6 +25,11 @@ export interface CvScan {
  * factor `f`, over `u` whitened by the data covariance (so the kernel is `f² Σ`). The
  * held-out set is every point when n <= maxHeldOut, else `maxHeldOut` evenly spaced rows.
  * The log-determinant of Σ is a constant and is left out.
+ *
+ * Ties: exact copies of the held-out point are left out with it ("leave-one-value-out"),
+ * since on rounded or repeated data the copies would otherwise reward a bandwidth that
+ * shrinks to 0 (the likelihood grows without bound as each point predicts its own copy).
+ * A held-out point whose every other point is a copy is skipped.
  */
 export function looScan(
   u: Float64Array,
@@ -39,10 +46,10 @@ export function looScan(
   const inv2 = factors.map((f) => 0.5 / (f * f));
   const logNorm = factors.map((f) => -0.5 * d * Math.log(2 * Math.PI) - d * Math.log(f));
   const cut = LOG_CUT;
-  let heldWeight = 0;
+  let heldWeight = 0, tied = 0;
   for (let k = 0; k < m; k++) {
     const i = m === n ? k : Math.floor((k * n) / m);
-    let dmin = Infinity;
+    let dmin = Infinity, copies = 0;
     for (let j = 0; j < n; j++) {
       if (j === i) {
         dist[j] = Infinity;
@@ -53,10 +60,17 @@ export function looScan(
         const t = u[i * d + c] - u[j * d + c];
         s2 += t * t;
       }
+      if (s2 === 0) {
+        dist[j] = Infinity;
+        copies += w[j];
+        continue;
+      }
       dist[j] = s2;
       if (s2 < dmin) dmin = s2;
     }
-    const rest = 1 - w[i];
+    if (copies > 0) tied++;
+    if (dmin === Infinity) continue;
+    const rest = 1 - w[i] - copies;
     for (let g = 0; g < G; g++) {
       const a = inv2[g];
       const lim = dmin + cut / a;
@@ -69,7 +83,7 @@ export function looScan(
     }
     heldWeight += w[i];
   }
-  return { factors, scores: total.map((t) => t / heldWeight) };
+  return { factors, scores: total.map((t) => t / heldWeight), tied };
 }
 
 /**
@@ -117,6 +131,12 @@ export function cvFactor(
         best === 0 ? "smallest" : "largest"
       } factor tried; ` +
         "widen cvFactors (ties in the data push the optimum to 0)",
+    );
+  }
+  if (coarse.tied > 0) {
+    notes.push(
+      `${coarse.tied} of ${Math.min(s.n, maxHeld)} held-out points have exact copies in ` +
+        "the data (rounded or repeated values): each was left out together with its copies",
     );
   }
   extra.cv = {

@@ -122,7 +122,9 @@ export interface DiffusionBandwidth {
  * Diffusion bandwidth selector for 1-D data (the "improved Sheather–Jones" plug-in): bins
  * the data on 2^14 points over the range widened by a tenth on each side, takes the
  * discrete cosine transform, and solves `t = ξ γ^[l](t)` with l = 7 stages by bracketed
- * root finding. Weights give a weighted histogram and the effective sample size.
+ * root finding. Weights give a weighted histogram and the effective sample size. N in the
+ * fixed-point equation is the number of distinct values (as the authors' published code
+ * counts it), so rounded or repeated data do not collapse the bandwidth.
  *
  * References: Botev, Grotowski & Kroese 2010, Kernel density estimation via diffusion,
  * Annals of Statistics 38(5), eqs. (29)-(30) and Algorithm 1.
@@ -189,11 +191,22 @@ export function diffusionBandwidth(
     a2[k - 1] = ak * ak;
     I[k - 1] = k * k;
   }
-  const neff = effectiveSampleSize(N, weights);
+  // N is the number of distinct values, as in the authors' published code (from memory:
+  // `N = length(unique(data))`): on rounded or repeated data the copies carry no new
+  // information about the density's roughness, and counting them drives t* towards 0.
+  const neff = Math.min(effectiveSampleSize(N, weights), distinctCount(x));
   const fp = fixedPointData(neff, I, a2);
   const f = (t: number) => fixedPoint(t, fp);
   const tStar = findRoot(f);
   return { bandwidth: Math.sqrt(tStar) * R, tStar, gridSize: n };
+}
+
+/** Number of distinct values in `x`. */
+function distinctCount(x: ArrayLike<number>): number {
+  const sorted = Float64Array.from(x).sort();
+  let k = sorted.length > 0 ? 1 : 0;
+  for (let i = 1; i < sorted.length; i++) if (sorted[i] !== sorted[i - 1]) k++;
+  return k;
 }
 
 /** Precomputed pieces of the fixed-point map: `I^s a2` for s = 2..7 and `π² I`. */

@@ -6,6 +6,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { symmetricEigen } from "../linalg/eigen.ts";
 import { covariance as sampleCovariance } from "../linalg/moments.ts";
 import { type RandomSource, type Rng, toRng } from "../random/rng.ts";
 import { type Samples, samples, type SamplesInput } from "../samples/samples.ts";
@@ -60,8 +61,16 @@ export interface GaussianMixtureFit extends GaussianMixtureDensity {
   readonly logLikelihood: number;
   /** EM iterations of the winning start. */
   readonly iterations: number;
-  /** Whether the winning start met `tol` within `maxIter`. */
+  /**
+   * Whether the winning start met `tol` within `maxIter` with no degenerate component
+   * (false when a component collapsed, even if EM met `tol`: see `degenerate`).
+   */
   readonly converged: boolean;
+  /**
+   * Components (0-based) that collapsed: fewer than d + 1 effective points (n w_j), or a
+   * covariance whose smallest eigenvalue is within 10x of the `regularization` floor.
+   */
+  readonly degenerate: readonly number[];
   /** Free parameters of the model. */
   readonly nParameters: number;
   /** Bayesian information criterion `-2 LL + p ln n` (Schwarz 1978); lower is better. */
@@ -473,6 +482,17 @@ export function mixtureParameterCount(k: number, d: number, type: CovarianceType
   return k - 1 + k * d + covParams;
 }
 
+/** Components with fewer than d + 1 effective points or a covariance at the floor. */
+function degenerateComponents(p: Params, n: number, d: number, reg: number): number[] {
+  const out: number[] = [];
+  for (let j = 0; j < p.w.length; j++) {
+    const cov = p.cov.subarray(j * d * d, (j + 1) * d * d);
+    const minEig = Math.min(...symmetricEigen(cov, d).values);
+    if (n * p.w[j] < d + 1 || minEig <= 10 * reg) out.push(j);
+  }
+  return out;
+}
+
 function toFit(
   run: Run,
   s: Samples,
@@ -493,11 +513,21 @@ function toFit(
   const aic = -2 * total + 2 * p;
   const notes: string[] = [];
   if (!run.converged) notes.push(`EM stopped at maxIter = ${run.iterations} before meeting tol`);
+  const degenerate = degenerateComponents(run.params, n, d, reg);
+  if (degenerate.length > 0) {
+    notes.push(
+      `component${degenerate.length > 1 ? "s" : ""} ${degenerate.join(", ")} collapsed ` +
+        `(fewer than d + 1 = ${d + 1} effective points, or a covariance at the ` +
+        `regularization floor ${reg}): the fit is not trustworthy (converged: false); use ` +
+        "fewer components",
+    );
+  }
   const fitted = {
     covarianceType: type,
     logLikelihood: run.ll,
     iterations: run.iterations,
-    converged: run.converged,
+    converged: run.converged && degenerate.length === 0,
+    degenerate,
     nParameters: p,
     bic,
     aic,

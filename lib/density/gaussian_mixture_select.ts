@@ -5,12 +5,13 @@
  */
 import { SaddleError } from "../errors/saddle_error.ts";
 import { withDisplay } from "../display/display.ts";
-import { htmlTable, textTable } from "../display/table.ts";
+import { escapeHtml, htmlTable, textTable } from "../display/table.ts";
 import { samples, type SamplesInput } from "../samples/samples.ts";
 import {
   fitGaussianMixture,
   type GaussianMixtureFit,
   type GaussianMixtureFitOptions,
+  mixtureParameterCount,
 } from "./gaussian_mixture_fit.ts";
 
 /** Options of {@linkcode selectGaussianMixture}: a range of counts plus the fit options. */
@@ -36,8 +37,10 @@ export interface GaussianMixtureSelectRow {
   readonly aic: number;
   /** EM iterations. */
   readonly iterations: number;
-  /** Whether EM converged. */
+  /** Whether EM converged with no degenerate component. */
   readonly converged: boolean;
+  /** Components that collapsed (see {@linkcode GaussianMixtureFit.degenerate}). */
+  readonly degenerate: readonly number[];
 }
 
 /** Result of {@linkcode selectGaussianMixture}: the table and the chosen fit. */
@@ -52,6 +55,8 @@ export interface GaussianMixtureSelection {
   readonly table: readonly GaussianMixtureSelectRow[];
   /** Counts whose fit failed (collapsed components), with the reason. */
   readonly failed: readonly { readonly components: number; readonly reason: string }[];
+  /** Counts left out because the data cannot support them, and fits passed over. */
+  readonly notes: readonly string[];
 }
 
 /**
@@ -98,8 +103,22 @@ export function selectGaussianMixture(
   }
   const table: GaussianMixtureSelectRow[] = [];
   const failed: { components: number; reason: string }[] = [];
-  let best: GaussianMixtureFit | undefined;
-  for (let k = from; k <= Math.min(to, s.n); k++) {
+  const notes: string[] = [];
+  let best: GaussianMixtureFit | undefined, bestDegenerate: GaussianMixtureFit | undefined;
+  // A model with at least as many free parameters as points cannot be estimated (its
+  // likelihood is unbounded as components shrink onto points): such counts are not tried.
+  const type = options.covariance ?? "full";
+  let top = Math.min(to, s.n);
+  while (top > from && mixtureParameterCount(top, s.d, type) >= s.n) top--;
+  if (top < Math.min(to, s.n)) {
+    notes.push(
+      `${s.n} points support at most ${top} component${top > 1 ? "s" : ""} here (a ` +
+        `${top + 1}-component ${type} mixture in d = ${s.d} has ` +
+        `${mixtureParameterCount(top + 1, s.d, type)} free parameters, not fewer than the ` +
+        `points): counts ${top + 1}..${to} were not tried`,
+    );
+  }
+  for (let k = from; k <= top; k++) {
     let fit: GaussianMixtureFit;
     try {
       fit = fitGaussianMixture(s, { ...options, components: k });
@@ -118,8 +137,24 @@ export function selectGaussianMixture(
       aic: fit.aic,
       iterations: fit.iterations,
       converged: fit.converged,
+      degenerate: fit.degenerate,
     });
-    if (!best || fit[criterion] < best[criterion]) best = fit;
+    if (fit.degenerate.length > 0) {
+      if (!bestDegenerate || fit[criterion] < bestDegenerate[criterion]) bestDegenerate = fit;
+    } else if (!best || fit[criterion] < best[criterion]) best = fit;
+  }
+  const passed = table.filter((t) => t.degenerate.length > 0).map((t) => t.components);
+  if (passed.length > 0 && best) {
+    notes.push(
+      `fits with ${passed.join(", ")} components have collapsed components and were not ` +
+        "chosen",
+    );
+  } else if (!best && bestDegenerate) {
+    best = bestDegenerate;
+    notes.push(
+      "every fit has a collapsed component: the least bad one is returned; the data are too " +
+        "few (or too discrete) for a mixture",
+    );
   }
   if (!best) {
     throw new SaddleError(
@@ -134,6 +169,7 @@ export function selectGaussianMixture(
     best,
     table,
     failed,
+    notes,
   };
   return withDisplay(result, (r) => {
     const header = [
@@ -144,6 +180,7 @@ export function selectGaussianMixture(
       "AIC",
       "iterations",
       "converged",
+      "collapsed",
       "",
     ];
     const rows = r.table.map((t) => [
@@ -154,13 +191,16 @@ export function selectGaussianMixture(
       t.aic,
       t.iterations,
       t.converged ? "yes" : "no",
+      t.degenerate.length ? t.degenerate.join(", ") : "",
       t.components === r.components ? `← min ${r.criterion.toUpperCase()}` : "",
     ]);
     const caption =
       `Gaussian mixture selection by ${r.criterion.toUpperCase()}: ${r.components} components`;
     return {
-      "text/plain": `${caption}\n${textTable(header, rows)}`,
-      "text/html": htmlTable(header, rows, caption),
+      "text/plain": `${caption}\n${textTable(header, rows)}` +
+        (r.notes.length ? `\n${r.notes.join("\n")}` : ""),
+      "text/html": htmlTable(header, rows, caption) +
+        r.notes.map((n) => `<p>${escapeHtml(n)}</p>`).join(""),
     };
   });
 }

@@ -40,10 +40,25 @@ export interface HistogramDensity extends Density {
 }
 
 /**
+ * Most cells a histogram may have (all axes together): 2^22, two float64 arrays of 32 MiB.
+ *
+ * @example
+ * ```ts
+ * import { fitHistogram, MAX_HISTOGRAM_CELLS } from "./histogram.ts";
+ * import assert from "node:assert/strict";
+ * assert.equal(MAX_HISTOGRAM_CELLS, 4194304);
+ * assert.throws(() => fitHistogram([[0, 0], [1, 1]], { bins: [1e5, 1e5] }), /limit is 4194304/);
+ * ```
+ */
+export const MAX_HISTOGRAM_CELLS = 1 << 22;
+
+/**
  * A histogram density: cell probability `(count + α) / (N + α B)` divided by the cell
  * volume inside the grid, and `-Infinity` outside it (a pseudo-count α > 0 keeps every
  * cell of the grid positive, which log-ratio and divergence estimates need). Sampling is
- * exact: a cell by its probability, then uniform in the cell.
+ * exact: a cell by its probability, then uniform in the cell. At most
+ * {@linkcode MAX_HISTOGRAM_CELLS} cells in all; more bins are refused before any memory is
+ * taken.
  *
  * References: Freedman & Diaconis 1981 (bin width 2 IQR n^(-1/3)); additive smoothing is
  * common practice (Laplace's rule for α = 1, Jeffreys' prior for α = 0.5).
@@ -116,6 +131,15 @@ export function fitHistogram(
     bins.push(b);
   }
   const B = bins.reduce((a, b) => a * b, 1);
+  if (B > MAX_HISTOGRAM_CELLS) {
+    throw new SaddleError(
+      "invalid-argument",
+      `bins ${d === 1 ? bins[0] : `[${bins.join(", ")}]`} make ${B} cells; the limit is ` +
+        `${MAX_HISTOGRAM_CELLS} (2^22) cells in all (two float64 arrays of 32 MiB): use fewer ` +
+        "bins (a histogram with far more cells than points is mostly empty cells anyway)",
+      { parameter: "bins" },
+    );
+  }
   const counts = new Float64Array(B);
   let total = 0;
   for (let i = 0; i < n; i++) {

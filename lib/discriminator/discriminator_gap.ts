@@ -9,9 +9,10 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import { bootstrap } from "../estimate/bootstrap.ts";
 import { withDisplay } from "../display/display.ts";
 import { type Estimate, meanEstimate } from "../estimate/estimate.ts";
-import { htmlTable, type TableCell, textTable } from "../display/table.ts";
+import { clipToRange } from "../estimate/units.ts";
+import { escapeHtml, htmlTable, type TableCell, textTable } from "../display/table.ts";
 import type { RandomSource } from "../random/rng.ts";
-import { assertSameDimension, type Samples } from "../samples/samples.ts";
+import { assertSameDimension, isSamples, type Samples } from "../samples/samples.ts";
 import { twoSampleSum } from "../estimate/two_sample.ts";
 import { OUTPUT_EPSILON, type OutputScale, outputsToLogits } from "./output_scale.ts";
 import { logSigmoid, sigmoid } from "../math/log_space.ts";
@@ -20,10 +21,10 @@ import type { Discriminator } from "./types.ts";
 
 /** Input of {@linkcode discriminatorGap}. */
 export interface DiscriminatorGapInput {
-  /** The trained discriminator's outputs on the real samples. */
-  dReal: ArrayLike<number>;
+  /** The trained discriminator's outputs on the real samples (or a one-column Samples). */
+  dReal: ArrayLike<number> | Samples;
   /** Its outputs on the generated samples. */
-  dFake: ArrayLike<number>;
+  dFake: ArrayLike<number> | Samples;
   /** Whether the outputs are probabilities or logits. */
   scale: OutputScale;
   /** The real points the outputs were computed on (needed with densities or a reference). */
@@ -84,6 +85,14 @@ export interface DiscriminatorGap {
   readonly brier: Estimate;
   /** Mean |D - D*| on the real and on the generated points. */
   readonly meanAbsDiff?: { readonly real: Estimate; readonly fake: Estimate };
+  /**
+   * What the comparison is against: `"D*"` (from the two densities), `"reference"` (a given
+   * discriminator, e.g. a classifier estimate of D*), or `"none"`. The tables name the
+   * rows after it: a reference is not D*, and a negative gap shows it is not.
+   */
+  readonly against: "D*" | "reference" | "none";
+  /** The gap's interval lies below 0: the reference does not describe the samples. */
+  readonly negativeGap: boolean;
   /** Caveats. */
   readonly notes: readonly string[];
 }
@@ -179,29 +188,42 @@ export function discriminatorGap(input: DiscriminatorGapInput): DiscriminatorGap
     gap = twoSampleSum(gR, gF, opts);
     if (gap.ci && gap.ci[1] < 0) {
       notes.push(
-        "V(D*, G) - V(D, G) is significantly negative: the densities (or the reference) " +
-          "do not describe these samples",
+        `V(${input.pData ? "D*" : "D_ref"}, G) - V(D, G) is significantly negative: the ` +
+          `${input.pData ? "densities do" : "reference discriminator does"} not describe ` +
+          "these samples (at D* the gap is >= 0 in expectation)",
       );
     }
     const absR = lr.map((l, i) => Math.abs(sigmoid(l) - sigmoid(sr![i])));
     const absF = lf.map((l, i) => Math.abs(sigmoid(l) - sigmoid(sf![i])));
+    // Probabilities: intervals kept inside [0, 1].
+    const mean = (v: Float64Array, what: string) =>
+      clipToRange(
+        meanEstimate(v, { level, unit: "probability", method: "sample mean" }),
+        0,
+        1,
+        what,
+      );
     meanAbsDiff = {
-      real: meanEstimate(absR, { level, unit: "probability", method: "sample mean" }),
-      fake: meanEstimate(absF, { level, unit: "probability", method: "sample mean" }),
+      real: mean(absR, "mean |D - D*| (real)"),
+      fake: mean(absF, "mean |D - D*| (generated)"),
     };
   }
 
   // Probabilities as given (not through the clipped logit and back, which moves outputs
   // on a bin edge by rounding); from logits, the logistic.
-  const pR = input.scale === "prob" ? Float64Array.from(input.dReal) : lr.map(sigmoid);
-  const pF = input.scale === "prob" ? Float64Array.from(input.dFake) : lf.map(sigmoid);
+  const asGiven = (v: ArrayLike<number> | Samples) => Float64Array.from(isSamples(v) ? v.data : v);
+  const pR = input.scale === "prob" ? asGiven(input.dReal) : lr.map(sigmoid);
+  const pF = input.scale === "prob" ? asGiven(input.dFake) : lf.map(sigmoid);
   const oPR = sr?.map(sigmoid), oPF = sf?.map(sigmoid);
-  // Right-closed bins ((b - 1)/nb, b/nb] as Guo et al. 2017 (and sklearn's calibration_curve);
-  // 0 goes to the first bin. The edges are b/nb, so p = 0.3 lands in (0.2, 0.3].
+  // Right-closed bins (edge[b], edge[b + 1]] as Guo et al. 2017 and sklearn's
+  // calibration_curve (searchsorted on the inner edges); 0 goes to the first bin. The edges
+  // are numpy's linspace(0, 1, nb + 1), b * (1 / nb) and 1 at the end, so an output such as
+  // 0.1 + 0.2 = 0.30000000000000004 = 3 * 0.1 lands in (0.2, 0.3] as it does there.
+  const edges = reliabilityEdges(nb);
   const binIndex = (p: number) => {
     let b = Math.min(nb - 1, Math.max(0, Math.ceil(p * nb) - 1));
-    if (b > 0 && p <= b / nb) b--;
-    else if (b < nb - 1 && p > (b + 1) / nb) b++;
+    while (b > 0 && p <= edges[b]) b--;
+    while (b < nb - 1 && p > edges[b + 1]) b++;
     return b;
   };
   const calib = (ir: ArrayLike<number>, iF: ArrayLike<number>) => {
@@ -237,8 +259,8 @@ export function discriminatorGap(input: DiscriminatorGapInput): DiscriminatorGap
   for (let b = 0; b < nb; b++) {
     const wb = base.w[b];
     bins.push({
-      lo: b / nb,
-      hi: (b + 1) / nb,
+      lo: edges[b],
+      hi: edges[b + 1],
       count: base.cnt[b],
       weight: wb,
       meanD: wb > 0 ? base.sD[b] / wb : NaN,
@@ -256,6 +278,8 @@ export function discriminatorGap(input: DiscriminatorGapInput): DiscriminatorGap
   });
   if (!ref) notes.push("no densities or reference given: the gap to D* is not computed");
   const out: DiscriminatorGap = {
+    against: input.pData ? "D*" : ref ? "reference" : "none",
+    negativeGap: gap?.ci !== undefined && gap.ci[1] < 0,
     value,
     ...(optimalValue ? { optimalValue } : {}),
     ...(gap ? { gap } : {}),
@@ -269,29 +293,55 @@ export function discriminatorGap(input: DiscriminatorGapInput): DiscriminatorGap
   return withDisplay(out, gapBundle);
 }
 
+/** Bin edges as numpy's `linspace(0, 1, nb + 1)`: `b * (1 / nb)`, and exactly 1 last. */
+function reliabilityEdges(nb: number): Float64Array {
+  const step = 1 / nb;
+  const e = Float64Array.from({ length: nb + 1 }, (_, b) => b * step);
+  e[nb] = 1;
+  return e;
+}
+
 function gapBundle(g: DiscriminatorGap): Record<string, string> {
+  // A reference discriminator is named as such, never as D*; a significantly negative gap
+  // is flagged in the table itself, not only in the notes.
+  const R = g.against === "reference" ? "D_ref" : "D*";
+  const warn = g.negativeGap ? " (negative: the reference does not describe the samples)" : "";
   const rows: TableCell[][] = [["V(D, G)", g.value]];
-  if (g.optimalValue) rows.push(["V(D*, G)", g.optimalValue]);
-  if (g.gap) rows.push(["gap V(D*, G) - V(D, G)", g.gap]);
+  if (g.optimalValue) rows.push([`V(${R}, G)`, g.optimalValue]);
+  if (g.gap) rows.push([`gap V(${R}, G) - V(D, G)${warn}`, g.gap]);
   rows.push(["ECE (labels)", g.ece]);
-  if (g.eceVsOptimal) rows.push(["ECE against D*", g.eceVsOptimal]);
+  if (g.eceVsOptimal) rows.push([`ECE against ${R}`, g.eceVsOptimal]);
   rows.push(["Brier score", g.brier]);
   if (g.meanAbsDiff) {
-    rows.push(["mean |D - D*| (real)", g.meanAbsDiff.real]);
-    rows.push(["mean |D - D*| (generated)", g.meanAbsDiff.fake]);
+    rows.push([`mean |D - ${R}| (real)`, g.meanAbsDiff.real]);
+    rows.push([`mean |D - ${R}| (generated)`, g.meanAbsDiff.fake]);
   }
-  const binRows: TableCell[][] = g.bins.map((b) => [
-    `[${b.lo.toFixed(2)}, ${b.hi.toFixed(2)})`,
+  // Right-closed, as the bins are built: (lo, hi], with 0 in the first bin [0, hi].
+  const binRows: TableCell[][] = g.bins.map((b, i) => [
+    `${i === 0 ? "[" : "("}${b.lo.toFixed(2)}, ${b.hi.toFixed(2)}]`,
     b.count,
     b.meanD,
     b.fractionReal,
     b.meanOptimal ?? null,
   ]);
-  const bh = ["bin", "count", "mean D", "real fraction", "mean D*"];
+  const bh = ["bin", "count", "mean D", "real fraction", `mean ${R}`];
+  const caption = g.against === "reference"
+    ? "Discriminator against a reference discriminator (not the exact D*)"
+    : "Discriminator against the optimum";
+  const warning = g.negativeGap
+    ? `<p style="color:#b00020"><strong>warning:</strong> V(${R}, G) - V(D, G) is ` +
+      "significantly negative: the reference does not describe these samples, so the " +
+      "comparison says nothing about the optimum</p>"
+    : "";
   return {
     "text/plain": `${textTable(["quantity", "estimate"], rows)}\n\n${textTable(bh, binRows)}` +
       (g.notes.length ? `\n${g.notes.join("\n")}` : ""),
-    "text/html": htmlTable(["quantity", "estimate"], rows, "Discriminator against the optimum") +
-      htmlTable(bh, binRows, "Reliability bins (equal priors)"),
+    "text/html": warning + htmlTable(["quantity", "estimate"], rows, caption) +
+      htmlTable(bh, binRows, "Reliability bins (equal priors)") +
+      (g.notes.length
+        ? `<ul style="font-size:smaller">${
+          g.notes.map((n) => `<li>${escapeHtml(n)}</li>`).join("")
+        }</ul>`
+        : ""),
   };
 }

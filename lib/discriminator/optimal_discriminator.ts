@@ -4,6 +4,7 @@
  * @module
  */
 import type { Density } from "../density/types.ts";
+import type { GaussianDensity } from "../density/gaussian.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
 import { withDisplay } from "../display/display.ts";
 import { escapeHtml } from "../display/table.ts";
@@ -55,6 +56,9 @@ export interface OptimalDiscriminator extends Discriminator {
  * where only `p_data` vanishes, `-Infinity` and D* = 0; where both log-densities are
  * `-Infinity` (outside both supports) D* is undefined and set to 1/2 (logit
  * {@linkcode UNDEFINED_LOGIT} = 0: no evidence either way); `evaluate` counts such points.
+ * Two Gaussians have full support, so there both -Infinity means underflow far out (|x|
+ * beyond about 1e154): their log-ratio is then taken from the quadratic forms scaled by
+ * |x|, which gives D* = 0 or 1 as the tails decide (1/2 only for identical Gaussians).
  *
  * References: Goodfellow et al. 2014, Generative Adversarial Nets (NeurIPS), Prop. 1.
  *
@@ -62,6 +66,7 @@ export interface OptimalDiscriminator extends Discriminator {
  * ```ts
  * import { optimalDiscriminator } from "./optimal_discriminator.ts";
  * import type { Density } from "../density/types.ts";
+import type { GaussianDensity } from "../density/gaussian.ts";
  * import { samples } from "../samples/samples.ts";
  * import assert from "node:assert/strict";
  * // Two unit-variance 1-D normals with means 0 and 2 (written inline for the example).
@@ -80,6 +85,9 @@ export interface OptimalDiscriminator extends Discriminator {
  */
 export function optimalDiscriminator(pData: Density, pModel: Density): OptimalDiscriminator {
   assertSameDimension(pData, pModel, "pData", "pModel");
+  const far = isGaussian(pData) && isGaussian(pModel)
+    ? farGaussianLogRatio(pData, pModel)
+    : undefined;
   const evaluate = (x: Samples): OptimalDiscriminatorEvaluation => {
     if (x.d !== pData.d) {
       throw new SaddleError(
@@ -103,7 +111,10 @@ export function optimalDiscriminator(pData: Density, pModel: Density): OptimalDi
         );
       }
       let l: number;
-      if (a === b) {
+      if (a === -Infinity && b === -Infinity && far) {
+        // Two Gaussians far out: both log-densities underflow, but their ratio is known.
+        l = far(x.data.subarray(i * x.d, (i + 1) * x.d));
+      } else if (a === b) {
         // Equal values, including both -Infinity (no mass) and both +Infinity (atoms).
         if (a === -Infinity) undefinedCount++;
         l = UNDEFINED_LOGIT;
@@ -132,4 +143,45 @@ export function optimalDiscriminator(pData: Density, pModel: Density): OptimalDi
       "plotDiscriminatorMap";
     return { "text/plain": text, "text/html": `<p>${escapeHtml(text)}</p>` };
   });
+}
+
+function isGaussian(p: Density): p is GaussianDensity {
+  const g = p as Partial<GaussianDensity>;
+  return g.mean instanceof Float64Array && g.choleskyFactor instanceof Float64Array &&
+    typeof g.logDet === "number" && p.describe().kind === "gaussian";
+}
+
+/**
+ * The log-ratio of two Gaussians at a point so far out that both log-densities underflow
+ * to -Infinity (|x| near 1e154 or beyond). With s = max |x_i| and u = x / s,
+ * `ln p - ln q = -s² A / 2 + s B + C` where A = |L_p⁻¹u|² - |L_q⁻¹u|²,
+ * B = (L_p⁻¹u)·(L_p⁻¹μ_p) - (L_q⁻¹u)·(L_q⁻¹μ_q) and C collects the constants: for such s
+ * the first non-zero of -A, B decides the sign and the ratio is infinite (D* = 1 or 0);
+ * equal precisions and means leave C, a finite ratio.
+ */
+function farGaussianLogRatio(p: GaussianDensity, q: GaussianDensity) {
+  const d = p.d;
+  const solve = (L: Float64Array, v: Float64Array) => {
+    const z = new Float64Array(d);
+    for (let i = 0; i < d; i++) {
+      let t = v[i];
+      for (let k = 0; k < i; k++) t -= L[i * d + k] * z[k];
+      z[i] = t / L[i * d + i];
+    }
+    return z;
+  };
+  const bp = solve(p.choleskyFactor, p.mean), bq = solve(q.choleskyFactor, q.mean);
+  const dot = (a: Float64Array, b: Float64Array) => a.reduce((t, v, i) => t + v * b[i], 0);
+  const C = -0.5 * (p.logDet - q.logDet) - 0.5 * (dot(bp, bp) - dot(bq, bq));
+  return (x: Float64Array): number => {
+    let s = 0;
+    for (let i = 0; i < d; i++) s = Math.max(s, Math.abs(x[i]));
+    if (!(s > 0 && s < Infinity)) return UNDEFINED_LOGIT;
+    const u = x.map((v) => v / s);
+    const ap = solve(p.choleskyFactor, u), aq = solve(q.choleskyFactor, u);
+    const A = dot(ap, ap) - dot(aq, aq), B = dot(ap, bp) - dot(aq, bq);
+    if (A !== 0) return A > 0 ? -Infinity : Infinity;
+    if (B !== 0) return B > 0 ? Infinity : -Infinity;
+    return C;
+  };
 }

@@ -5,6 +5,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { isSamples, type Samples } from "../samples/samples.ts";
 
 /** Scale of a discriminator's outputs: probabilities in [0, 1] or logits in R. */
 export type OutputScale = "prob" | "logit";
@@ -40,11 +41,12 @@ export const OUTPUT_EPSILON = 1e-7;
  * ```
  */
 export function outputsToLogits(
-  values: ArrayLike<number>,
+  outputs: ArrayLike<number> | Samples,
   scale: OutputScale,
   name: string,
   epsilon: number = OUTPUT_EPSILON,
 ): { logit: Float64Array; clipped: number } {
+  const values = outputColumn(outputs, name);
   if (scale !== "prob" && scale !== "logit") {
     throw new SaddleError("invalid-argument", `scale must be "prob" or "logit", got ${scale}`, {
       parameter: "scale",
@@ -64,7 +66,15 @@ export function outputsToLogits(
   let clipped = 0;
   const lo = Math.log(epsilon) - Math.log1p(-epsilon);
   for (let i = 0; i < values.length; i++) {
-    const v = values[i];
+    const v = values[i] as unknown;
+    if (typeof v !== "number") {
+      throw new SaddleError(
+        "invalid-argument",
+        `${name}[${i}] is ${describeValue(v)}, not a number; every output must be a number ` +
+          "(convert strings with Number(...), drop missing entries)",
+        { parameter: name, row: i },
+      );
+    }
     if (Number.isNaN(v)) {
       throw new SaddleError("non-finite", `${name} is NaN; drop or fix that output`, {
         parameter: name,
@@ -91,4 +101,40 @@ export function outputsToLogits(
     } else out[i] = Math.log(v) - Math.log1p(-v);
   }
   return { logit: out, clipped };
+}
+
+/**
+ * The outputs as an array-like of one value per point: a one-column Samples (what
+ * `readSamples` returns for a file of scores) gives its column; anything else that is not
+ * array-like, or a Samples of several columns, is refused saying what to pass.
+ */
+function outputColumn(values: unknown, name: string): ArrayLike<unknown> {
+  if (isSamples(values)) {
+    if (values.d === 1) return values.data;
+    throw new SaddleError(
+      "dimension-mismatch",
+      `${name} is Samples of ${values.d} columns; pass one output per point: one column ` +
+        "(selectColumns(s, [j]).data) or an array of numbers",
+      { parameter: name },
+    );
+  }
+  if (
+    values === null || typeof values !== "object" ||
+    typeof (values as ArrayLike<unknown>).length !== "number"
+  ) {
+    throw new SaddleError(
+      "invalid-argument",
+      `${name} is ${describeValue(values)}; pass the discriminator's outputs as an array of ` +
+        "numbers, a Float64Array or a one-column Samples",
+      { parameter: name },
+    );
+  }
+  return values as ArrayLike<unknown>;
+}
+
+function describeValue(v: unknown): string {
+  if (v === null || v === undefined) return String(v);
+  if (typeof v === "string") return `the string ${JSON.stringify(v.slice(0, 40))}`;
+  if (typeof v === "number") return String(v);
+  return `a ${typeof v} (${String(v).slice(0, 40)})`;
 }

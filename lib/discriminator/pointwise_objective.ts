@@ -84,9 +84,12 @@ export function pointwiseObjective(
  * import { pointwiseMaximiser } from "./pointwise_objective.ts";
  * import assert from "node:assert/strict";
  * assert.equal(pointwiseMaximiser(3, 1), 0.75);
+ * assert.equal(pointwiseMaximiser(1e308, 1e308), 0.5); // no overflow of a + b
  * ```
  */
 export function pointwiseMaximiser(a: number, b: number): number {
   checkWeights(a, b);
-  return a / (a + b);
+  // Divide by the larger weight first: a + b overflows for weights near 1e308.
+  if (a === b) return 0.5;
+  return a > b ? 1 / (1 + b / a) : (a / b) / (1 + a / b);
 }

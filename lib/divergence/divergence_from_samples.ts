@@ -19,6 +19,7 @@ import {
   refitNotes,
   type RefitOptions,
   runReplicates,
+  sameIntegration,
 } from "./refit_bootstrap.ts";
 
 export type { RefitOptions };
@@ -101,13 +102,17 @@ export function divergenceFromSamples(
   const { fit: _fit, replicates: _b, ...rest } = options;
   const integ = refitIntegration(setup.real.d, { ...rest, seed: setup.seed, level: setup.level });
   const [p, q] = fitBoth(setup, setup.real, setup.fake);
-  const plugIn = fDivergence(p, q, spec, integ);
+  // The plug-in at fDivergence's own defaults (finer grid or more draws) unless the options
+  // fix them; the replicates' coarser integration gives the numerical share of the variance.
+  const plugIn = fDivergence(p, q, spec, { ...rest, seed: setup.seed, level: setup.level });
+  const coarse = sameIntegration(rest) ? plugIn : fDivergence(p, q, spec, integ);
   const run = runReplicates(setup, 1, (pb, qb, r) => [
     fDivergence(pb, qb, spec, { ...integ, seed: r }).value,
   ]);
   const est = refitEstimate(setup, run.columns[0], {
     what: spec.label,
     plugIn,
+    replicateError: coarse,
     failed: run.failed,
     bias: true,
     plugInNotes: true,

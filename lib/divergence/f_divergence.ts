@@ -19,7 +19,7 @@ import {
   logRatios,
   resolveMethod,
 } from "./integration.ts";
-import { logBase, rangeNote, scaleEstimate, unitOf } from "../estimate/units.ts";
+import { clipToRange, logBase, rangeNote, scaleEstimate, unitOf } from "../estimate/units.ts";
 import {
   type FDivergenceName,
   type FDivergenceSpec,
@@ -117,7 +117,12 @@ export function fDivergence(
   }
   const out = scaleEstimate(est, c, unit);
   const flag = rangeNote(out, s.range[0] / c, s.range[1] / c, s.label);
-  return flag ? scaleEstimate(out, 1, unit, [flag]) : out;
+  return clipToRange(
+    flag ? scaleEstimate(out, 1, unit, [flag]) : out,
+    s.range[0] / c,
+    s.range[1] / c,
+    s.label,
+  );
 }
 
 function infiniteNote(s: FDivergenceSpec): string {

@@ -57,45 +57,38 @@ export interface GridResult {
   readonly errors: Float64Array;
   /** Mass of p and q outside the range (1 - integral on the fine grid, floored at 0). */
   readonly massOutside: { readonly p: number; readonly q: number };
-  /** The integration range. */
+  /** The integration range (the first box when there are two). */
   readonly bounds: readonly (readonly [number, number])[];
+  /** The integration boxes: one, or one around each density when they lie apart. */
+  readonly boxes: readonly (readonly (readonly [number, number])[])[];
   /** Cells of the fine grid and its shift together. */
   readonly cells: number;
   /** Caveats. */
   readonly notes: readonly string[];
 }
 
-function gridBounds(
-  p: Density,
-  q: Density,
-  options: IntegrationOptions,
-): (readonly [number, number])[] {
-  const d = p.d;
-  if (options.bounds) {
-    if (options.bounds.length !== d) {
-      throw new SaddleError(
-        "dimension-mismatch",
-        `bounds has ${options.bounds.length} ranges for d = ${d}`,
-        { parameter: "bounds" },
-      );
+type Box = readonly (readonly [number, number])[];
+
+function checkBounds(d: number, bounds: readonly (readonly [number, number])[]): Box {
+  if (bounds.length !== d) {
+    throw new SaddleError(
+      "dimension-mismatch",
+      `bounds has ${bounds.length} ranges for d = ${d}`,
+      { parameter: "bounds" },
+    );
+  }
+  bounds.forEach(([lo, hi], j) => {
+    if (!(Number.isFinite(lo) && Number.isFinite(hi) && hi > lo)) {
+      throw new SaddleError("invalid-argument", `bounds[${j}] = [${lo}, ${hi}] is not a range`, {
+        parameter: "bounds",
+      });
     }
-    options.bounds.forEach(([lo, hi], j) => {
-      if (!(Number.isFinite(lo) && Number.isFinite(hi) && hi > lo)) {
-        throw new SaddleError("invalid-argument", `bounds[${j}] = [${lo}, ${hi}] is not a range`, {
-          parameter: "bounds",
-        });
-      }
-    });
-    return options.bounds.map(([lo, hi]) => [lo, hi] as const);
-  }
-  const margin = options.margin ?? 0.5;
-  if (!(margin >= 0)) {
-    throw new SaddleError("invalid-argument", `margin must be >= 0, got ${margin}`, {
-      parameter: "margin",
-    });
-  }
-  const rng = toRng(options.seed ?? 0);
-  const draws = [p.sample(2000, rng.fork("range-p")), q.sample(2000, rng.fork("range-q"))];
+  });
+  return bounds.map(([lo, hi]) => [lo, hi] as const);
+}
+
+/** The range of each coordinate over some draws, widened by `margin` times its span. */
+function drawBox(draws: readonly Samples[], d: number, margin: number): Box {
   const out: (readonly [number, number])[] = [];
   for (let j = 0; j < d; j++) {
     let lo = Infinity, hi = -Infinity;
@@ -112,6 +105,52 @@ function gridBounds(
   return out;
 }
 
+/** Whether two boxes are apart along at least one coordinate (they share no volume). */
+function apart(a: Box, b: Box): boolean {
+  return a.some(([lo, hi], j) => hi <= b[j][0] || b[j][1] <= lo);
+}
+
+/**
+ * The integration boxes: `bounds` when given; otherwise one box around draws of both
+ * densities, or, when the boxes around each density's own draws are apart (supports far
+ * from each other, where one box would be mostly empty and its cells wider than either
+ * density), one box around each, so that each side's mass is resolved on its own grid.
+ */
+function gridBoxes(p: Density, q: Density, options: IntegrationOptions): Box[] {
+  const d = p.d;
+  if (options.bounds) return [checkBounds(d, options.bounds)];
+  const margin = options.margin ?? 0.5;
+  if (!(margin >= 0)) {
+    throw new SaddleError("invalid-argument", `margin must be >= 0, got ${margin}`, {
+      parameter: "margin",
+    });
+  }
+  const rng = toRng(options.seed ?? 0);
+  const draws = [p.sample(2000, rng.fork("range-p")), q.sample(2000, rng.fork("range-q"))];
+  const boxP = drawBox([draws[0]], d, margin), boxQ = drawBox([draws[1]], d, margin);
+  if (apart(boxP, boxQ)) return [boxP, boxQ];
+  return [drawBox(draws, d, margin)];
+}
+
+/** Boxes doubled about their centres; boxes that come to overlap merge into their hull. */
+function widen(boxes: readonly Box[]): Box[] {
+  const out = boxes.map((b) =>
+    b.map(([lo, hi]) => {
+      const c = 0.5 * (lo + hi), r = hi - lo;
+      return [c - r, c + r] as const;
+    })
+  );
+  if (out.length === 2 && !apart(out[0], out[1])) {
+    return [
+      out[0].map(([lo, hi], j) =>
+        [Math.min(lo, out[1][j][0]), Math.max(hi, out[1][j][1])] as const
+      ),
+    ];
+  }
+  return out;
+}
+
+/** Midpoint sums of m·w (times the cell volume) over one box of g cells per dimension. */
 function gridPass(
   { p, q, weights, bounds, g, offset = 0 }: {
     p: Density;
@@ -122,17 +161,19 @@ function gridPass(
     offset?: number;
   },
 ): {
-  sums: Float64Array;
+  sumsP: Float64Array;
+  sumsQ: Float64Array;
   massP: number;
   massQ: number;
-  rimHeight: Float64Array;
+  rim: { pm: number[]; w: number[][] };
 } {
   const d = p.d;
   const h = bounds.map(([lo, hi]) => (hi - lo) / g);
   const vol = d === 1 ? h[0] : h[0] * h[1];
-  const sums = new Float64Array(weights.length);
-  const rimHeight = new Float64Array(weights.length);
-  let massP = 0, massQ = 0, massM = 0;
+  const sumsP = new Float64Array(weights.length), sumsQ = new Float64Array(weights.length);
+  // m and every w on the rim cells, for the tail estimate once the mean is known.
+  const rim = { pm: [] as number[], w: weights.map(() => [] as number[]) };
+  let massP = 0, massQ = 0;
   // Evaluate in row blocks so the batch buffers stay small.
   const rowsPerBlock = d === 1 ? g : Math.max(1, Math.floor(65536 / g));
   const blockRows = d === 1 ? 1 : Math.ceil(g / rowsPerBlock);
@@ -163,9 +204,9 @@ function gridPass(
       // m underflows to 0 in the far tails: a finite integrand contributes 0 there, and an
       // integrand that overflows there (w = Infinity from a huge ratio) must not give 0 · ∞.
       if (pm === 0) continue;
-      massP += Math.exp(a);
-      massQ += Math.exp(c);
-      massM += pm;
+      const ep = Math.exp(a), eq = Math.exp(c);
+      massP += ep;
+      massQ += eq;
       const r = a === c ? 0 : a - c;
       let onRim: boolean;
       if (d === 1) onRim = k === 0 || k === g - 1;
@@ -173,19 +214,78 @@ function gridPass(
         const i = r0 + Math.floor(k / g), j = k % g;
         onRim = i === 0 || j === 0 || i === g - 1 || j === g - 1;
       }
+      if (onRim) rim.pm.push(pm);
       for (let w = 0; w < weights.length; w++) {
         const wv = weights[w](r);
-        sums[w] += pm * wv;
-        if (onRim) {
-          if (Math.abs(pm * wv) > rimHeight[w]) rimHeight[w] = Math.abs(pm * wv);
-        }
+        // m w = (p w + q w) / 2; a side that vanishes here adds nothing (not 0 · ∞).
+        if (ep > 0) sumsP[w] += ep * wv;
+        if (eq > 0) sumsQ[w] += eq * wv;
+        if (onRim) rim.w[w].push(wv);
       }
     }
   }
-  // Self-normalised: the expectation under m is the weighted mean over the cells, so a
-  // constant integrand is exact and the discretisation error of m's mass cancels.
-  for (let w = 0; w < weights.length; w++) sums[w] /= massM;
-  return { sums, massP: massP * vol, massQ: massQ * vol, rimHeight };
+  for (let w = 0; w < weights.length; w++) {
+    sumsP[w] *= vol;
+    sumsQ[w] *= vol;
+  }
+  return { sumsP, sumsQ, massP: massP * vol, massQ: massQ * vol, rim };
+}
+
+/** One pass over every box: sums of m·w and of m, p, q, each cell weighted by its volume. */
+function gridPasses(
+  { p, q, weights, boxes, g, offset = 0 }: {
+    p: Density;
+    q: Density;
+    weights: readonly MixtureWeight[];
+    boxes: readonly Box[];
+    g: number;
+    offset?: number;
+  },
+): { sums: Float64Array; massP: number; massQ: number; tail: Float64Array } {
+  const sums = new Float64Array(weights.length), tail = new Float64Array(weights.length);
+  const sumsP = new Float64Array(weights.length), sumsQ = new Float64Array(weights.length);
+  let massP = 0, massQ = 0;
+  const passes = boxes.map((box) => gridPass({ p, q, weights, bounds: box, g, offset }));
+  for (const r of passes) {
+    massP += r.massP;
+    massQ += r.massQ;
+    for (let w = 0; w < weights.length; w++) {
+      sumsP[w] += r.sumsP[w];
+      sumsQ[w] += r.sumsQ[w];
+    }
+  }
+  if (!(massP > 0 && massQ > 0)) {
+    throw new SaddleError(
+      "non-finite",
+      `the integration grid found no mass of ${massP > 0 ? "q" : "p"} (a density narrower ` +
+        "than the grid cells, or outside the range): pass `bounds` around both densities, " +
+        'raise gridSize, or use method "monte-carlo"',
+      { parameter: massP > 0 ? "q" : "p" },
+    );
+  }
+  // Self-normalised per side: E_m[w] = (E_p[w] + E_q[w]) / 2, each mean taken over the
+  // cells with that density's grid mass as the weight, so a constant integrand is exact and
+  // the discretisation error of each density's mass cancels on its own (two densities with
+  // disjoint supports on separate grids keep their equal weights of 1/2).
+  for (let w = 0; w < weights.length; w++) {
+    sums[w] = 0.5 * (sumsP[w] / massP + sumsQ[w] / massQ);
+  }
+  // The tail beyond a box changes a self-normalised mean by the missing mass times the
+  // integrand's departure from that mean: estimated as the box volume times the largest
+  // m |w - mean| on its rim (so a constant part of w, such as -ln 4, adds no tail).
+  passes.forEach((r, b) => {
+    const volume = boxes[b].reduce((v, [lo, hi]) => v * (hi - lo), 1);
+    for (let w = 0; w < weights.length; w++) {
+      let h = 0;
+      const ws = r.rim.w[w];
+      for (let i = 0; i < ws.length; i++) {
+        const dev = ws[i] === sums[w] ? 0 : r.rim.pm[i] * Math.abs(ws[i] - sums[w]);
+        if (dev > h) h = dev;
+      }
+      tail[w] += h * volume;
+    }
+  });
+  return { sums, massP, massQ, tail };
 }
 
 /**
@@ -215,32 +315,36 @@ export function integrateGrid(
       parameter: "gridSize",
     });
   }
-  let bounds = gridBounds(p, q, options);
-  let coarse = gridPass({ p, q, weights, bounds, g });
-  let fine = gridPass({ p, q, weights, bounds, g: 2 * g });
-  let shifted = gridPass({ p, q, weights, bounds, g: 2 * g, offset: 0.5 });
+  let boxes = gridBoxes(p, q, options);
+  const passes = () =>
+    [
+      gridPasses({ p, q, weights, boxes, g }),
+      gridPasses({ p, q, weights, boxes, g: 2 * g }),
+      gridPasses({ p, q, weights, boxes, g: 2 * g, offset: 0.5 }),
+    ] as const;
+  let [coarse, fine, shifted] = passes();
   const notes: string[] = [];
+  if (boxes.length === 2) {
+    notes.push(
+      `the two densities lie apart: one grid around each (${fmtBounds(boxes[0])} and ` +
+        `${fmtBounds(boxes[1])})`,
+    );
+  }
   // Integrands with heavier tails than m (χ² with a wider q, say) are still large on the rim:
   // the tail beyond the range is estimated as rim height x box volume; while it matters and
   // the range was not given, double the range about its centre (at most 4 times).
-  const tails = () =>
-    fine.rimHeight.map((h) => h * bounds.reduce((v, [lo, hi]) => v * (hi - lo), 1));
-  let tail = tails();
   for (let k = 0; k < 4 && !options.bounds; k++) {
     const big = fine.sums.some((v, w) =>
-      Number.isFinite(v) && tail[w] > 1e-11 * Math.max(Math.abs(v), 1e-3)
+      Number.isFinite(v) && fine.tail[w] > 1e-11 * Math.max(Math.abs(v), 1e-3)
     );
     if (!big) break;
-    bounds = bounds.map(([lo, hi]) => {
-      const c = 0.5 * (lo + hi), r = hi - lo;
-      return [c - r, c + r] as const;
-    });
-    coarse = gridPass({ p, q, weights, bounds, g });
-    fine = gridPass({ p, q, weights, bounds, g: 2 * g });
-    shifted = gridPass({ p, q, weights, bounds, g: 2 * g, offset: 0.5 });
-    tail = tails();
-    notes.push(`the integrand is heavy-tailed: range widened to ${fmtBounds(bounds)}`);
+    boxes = widen(boxes);
+    [coarse, fine, shifted] = passes();
+    notes.push(
+      `the integrand is heavy-tailed: range widened to ${boxes.map(fmtBounds).join(" and ")}`,
+    );
   }
+  const tail = fine.tail;
   if (
     !options.bounds &&
     fine.sums.some((v, w) => Number.isFinite(v) && tail[w] > 1e-6 * Math.max(Math.abs(v), 1e-3))
@@ -268,7 +372,7 @@ export function integrateGrid(
     );
   }
   notes.push(
-    `midpoint quadrature on ${2 * g}${
+    `midpoint quadrature on ${boxes.length === 2 ? "2 x " : ""}${2 * g}${
       d === 2 ? ` x ${2 * g}` : ""
     } cells and their half-cell shift; error bar = ` +
       "|fine - coarse grid| + |fine - shifted fine grid| + estimated tail beyond the range",
@@ -277,14 +381,16 @@ export function integrateGrid(
     values,
     errors,
     massOutside: { p: outP, q: outQ },
-    bounds,
-    cells: d === 1 ? 4 * g : 8 * g * g,
+    bounds: boxes[0],
+    boxes,
+    cells: boxes.length * (d === 1 ? 4 * g : 8 * g * g),
     notes,
   };
 }
 
 function fmtBounds(b: readonly (readonly [number, number])[]): string {
-  return b.map(([lo, hi]) => `[${lo.toPrecision(4)}, ${hi.toPrecision(4)}]`).join(" x ");
+  return b.map(([lo, hi]) => `[${Number(lo.toPrecision(7))}, ${Number(hi.toPrecision(7))}]`)
+    .join(" x ");
 }
 
 /** Log-densities of both densities at draws from p and at draws from q. */
@@ -392,7 +498,10 @@ export function combineMeans(
   });
 }
 
-/** An Estimate from a grid value and its refinement error. */
+/**
+ * An Estimate from a grid value and its refinement error. A quadrature between two
+ * densities rests on no sample, so `n` is 0; the number of cells goes into the notes.
+ */
 export function gridEstimate(
   value: number,
   error: number,
@@ -401,24 +510,20 @@ export function gridEstimate(
 ): Estimate {
   const unit = fields.unit ? { unit: fields.unit } : {};
   const level = fields.level ?? 0.95;
-  if (!Number.isFinite(value)) {
-    return makeEstimate({
-      value,
-      level,
-      method: "grid-quadrature",
-      n: cells,
-      notes: fields.notes ?? [],
-      ...unit,
-    });
-  }
+  const notes = [
+    ...(fields.notes ?? []),
+    `quadrature over ${cells} cells; n = 0 because the value rests on no sample`,
+  ];
+  const interval = Number.isFinite(value)
+    ? { se: error, ci: [value - error, value + error] as const }
+    : {};
   return makeEstimate({
     value,
-    se: error,
-    ci: [value - error, value + error],
+    ...interval,
     level,
     method: "grid-quadrature",
-    n: cells,
-    notes: fields.notes ?? [],
+    n: 0,
+    notes,
     ...unit,
   });
 }

@@ -139,6 +139,14 @@ export function refitIntegration<T extends IntegrationOptions>(d: number, option
   return out;
 }
 
+/**
+ * Whether the options fix the integration (grid size or draws), so that the plug-in and
+ * the replicates integrate alike.
+ */
+export function sameIntegration(o: { gridSize?: number; n?: number }): boolean {
+  return o.gridSize !== undefined || o.n !== undefined;
+}
+
 /** "grid quadrature, 500 coarse cells per dimension" or "Monte Carlo, 2000 draws a density". */
 export function integrationText(o: { method?: string; gridSize?: number; n?: number }): string {
   return o.method === "grid"
@@ -224,6 +232,13 @@ export function runReplicates(
     try {
       const [p, q] = fitBoth(setup, takeRows(real, iReal), takeRows(fake, iFake));
       const v = compute(p, q, rb.fork("integrate"));
+      // A NaN is a failure of the recomputation, not a value: counted with the failures.
+      const bad = Array.from({ length: terms }, (_, t) => v[t]).findIndex(Number.isNaN);
+      if (bad >= 0) {
+        throw new SaddleError("non-finite", `replicate ${b} gave NaN for term ${bad}`, {
+          parameter: "fit",
+        });
+      }
       for (let t = 0; t < terms; t++) columns[t][b] = v[t];
     } catch (err) {
       if (!(err instanceof SaddleError)) throw err;
@@ -254,6 +269,12 @@ export interface RefitEstimateFields {
   readonly what: string;
   /** The plug-in estimate between the two fits (value and its numerical error bar). */
   readonly plugIn: Estimate;
+  /**
+   * Numerical se of one replicate: the same quantity on the replicates' coarser grid (or
+   * fewer draws), for the share of the bootstrap variance that is numerical (default: the
+   * plug-in's own se).
+   */
+  readonly replicateError?: Estimate;
   /** Unit of the term. */
   readonly unit?: EstimateUnit;
   /** Whether to report the bootstrap bias estimate (divergences, not exact constants). */
@@ -288,11 +309,12 @@ export function refitEstimate(
           "estimate rather than as a range for the true value",
       );
     }
-    const num = fields.plugIn.se;
+    const rep = fields.replicateError ?? fields.plugIn;
+    const num = rep.se;
     if (num !== undefined && Number.isFinite(num) && se > 0) {
       const share = Math.min(1, (num * num) / (se * se));
       notes.push(
-        `numerical error of the plug-in (${fields.plugIn.method}, se ${fmt(num)}) is ` +
+        `numerical error of a replicate (${rep.method}, se ${fmt(num)}) is ` +
           `${share < 1e-3 ? "< 0.1" : fmt(100 * share)}% of the bootstrap variance (se ${
             fmt(se)
           }); the rest is the ` +

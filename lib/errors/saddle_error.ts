@@ -30,7 +30,9 @@ export type SaddleErrorCode =
   /** An iterative method failed beyond repair (collapsed mixture component...). */
   | "numerical"
   /** Too few samples for the requested method (n < 2, n <= k...). */
-  | "too-few-samples";
+  | "too-few-samples"
+  /** A file could not be written (permission denied, read-only or full disk). */
+  | "io";
 
 /** Where in an input a problem was found; every field is optional. */
 export interface SaddleErrorLocation {

@@ -28,7 +28,10 @@ export interface DivergenceBar {
 export interface DivergencePlotOptions {
   /** Title. */
   title?: string;
-  /** Unit (default: the first estimate's unit, else "nats"). */
+  /**
+   * Unit on the axis (default: the estimates' shared unit, none for unitless ones such as
+   * TV; with mixed units each value label carries its own; "nats" for plain numbers).
+   */
   unit?: string;
   /** Panel width in px (default 620). */
   width?: number;
@@ -68,11 +71,20 @@ export function plotDivergences(
   if (list.length === 0) {
     throw new SaddleError("empty", "no divergences to plot", { parameter: "entries" });
   }
-  const rows = list.map((b) => {
-    const e = readEstimate(b.estimate);
-    return { name: b.name, ...e, reference: b.reference, label: short(e.value, 3) };
-  });
-  const unit = options.unit ?? rows.find((r) => r.unit)?.unit ?? "nats";
+  const read = list.map((b) => ({ b, e: readEstimate(b.estimate) }));
+  // Units: one shared unit goes on the axis ("none" is unitless: TV, squared Hellinger);
+  // mixed units (KL in nats beside TV) go on each bar's value label instead, so no
+  // unitless divergence is labelled in nats.
+  const units = [...new Set(read.map(({ e }) => e.unit).filter((u) => u !== undefined))];
+  const mixed = options.unit === undefined && units.length > 1;
+  const shared = options.unit ?? (units.length === 0 ? "nats" : units[0]);
+  const unit = mixed || shared === "none" ? undefined : shared;
+  const rows = read.map(({ b, e }) => ({
+    name: b.name,
+    ...e,
+    reference: b.reference,
+    label: short(e.value, 3) + (mixed && e.unit && e.unit !== "none" ? ` ${e.unit}` : ""),
+  }));
   const withCi = rows.filter((r) => r.lo !== undefined);
   const refs = rows.filter((r) => r.reference !== undefined);
   const all = rows.flatMap((r) => [r.value, r.hi ?? r.value, r.reference ?? 0, r.lo ?? 0, 0]);
@@ -156,7 +168,7 @@ export function plotDivergences(
         y: { domain: rows.map((r) => r.name), label: null, padding: 0.25 },
         x: {
           domain: [Math.min(0, lo - pad), hi + pad * 1.6],
-          label: axisLabel("divergence", { unit }),
+          label: mixed ? "divergence (units on each value)" : axisLabel("divergence", { unit }),
           grid: true,
         },
         marks,

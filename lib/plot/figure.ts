@@ -6,6 +6,7 @@
  */
 import type { PlotLayerOptions, PlotMark } from "./plot_types.ts";
 import { SaddleError } from "../errors/saddle_error.ts";
+import { writeFileAtomic } from "../files/atomic_write.ts";
 import { withDisplay } from "../display/display.ts";
 import { svgToPng } from "./_png.ts";
 
@@ -116,10 +117,12 @@ export class Figure {
    */
   async save(path: string, options: PngOptions = {}): Promise<void> {
     const ext = path.toLowerCase().match(/\.([a-z0-9]+)$/)?.[1];
+    // Rendered first, then written atomically (temporary file, rename): a failure leaves no
+    // partial file, and Deno's errors become SaddleErrors naming the path.
     if (ext === "svg") {
-      await Deno.writeTextFile(path, this.#svg);
+      await writeFileAtomic(path, this.#svg);
     } else if (ext === "png") {
-      await Deno.writeFile(path, await this.toPNG(options));
+      await writeFileAtomic(path, await this.toPNG(options));
     } else {
       throw new SaddleError(
         "unsupported",

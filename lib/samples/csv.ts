@@ -26,7 +26,8 @@ export interface CsvOptions {
   delimiter?: string;
   /**
    * Whether the first row is a header of column names. Default `"auto"`: it is a header
-   * when one of its cells is not a number.
+   * when one of its cells is not a number (radix literals and nan/inf words count as
+   * numbers here, see {@linkcode parseCsv}).
    */
   header?: boolean | "auto";
   /** Lines starting with this character are skipped (default `"#"`; `""` for none). */
@@ -42,11 +43,57 @@ export interface CsvOptions {
 const NUMERIC_WORD = /^\s*[+-]?(nan|inf|infinity)\s*$/i;
 const RADIX_PREFIX = /^\s*0[xXbBoO]/;
 
-/** Whether a header-detection cell looks like a number (NaN/inf words included). */
+/**
+ * Whether a header-detection cell looks like a number: a decimal number, a NaN/inf word,
+ * or a radix literal such as `0x10`. Radix literals are refused as data (decimal only),
+ * but a row of them is a data row with a bad cell, not a header: so it is reported, never
+ * dropped as a header.
+ */
 function looksNumeric(c: string): boolean {
   const t = c.trim();
   if (t === "") return true;
-  return (!Number.isNaN(Number(t)) && !RADIX_PREFIX.test(t)) || NUMERIC_WORD.test(t);
+  return !Number.isNaN(Number(t)) || NUMERIC_WORD.test(t);
+}
+
+/**
+ * Text with comment lines blanked (their line breaks kept, so line numbers stay right). A
+ * line is a comment when, outside a quoted field, it starts with `comment` after spaces or
+ * tabs; inside a quoted multi-line field the character is data. Quotes follow d3-dsv's
+ * rules: special only at the start of a field, `""` inside quotes is a quote.
+ */
+function stripComments(text: string, comment: string, delimiter: string): string {
+  const parts: string[] = [];
+  let from = 0, i = 0, inQuote = false, fieldStart = true, lineStart = true;
+  const N = text.length;
+  while (i < N) {
+    if (lineStart && !inQuote) {
+      lineStart = false;
+      let j = i;
+      while (text[j] === " " || text[j] === "\t") j++;
+      if (text[j] === comment) {
+        let k = j;
+        while (k < N && text[k] !== "\n" && text[k] !== "\r") k++;
+        parts.push(text.slice(from, i));
+        from = i = k;
+        continue;
+      }
+    }
+    const c = text[i];
+    if (inQuote) {
+      if (c === '"') {
+        if (text[i + 1] === '"') i++;
+        else inQuote = false;
+      }
+    } else if (c === '"' && fieldStart) {
+      inQuote = true;
+      fieldStart = false;
+    } else if (c === "\n" || c === "\r") {
+      fieldStart = lineStart = true;
+    } else fieldStart = c === delimiter;
+    i++;
+  }
+  parts.push(text.slice(from));
+  return parts.join("");
 }
 
 function guessDelimiter(text: string, comment: string): string {
@@ -66,6 +113,15 @@ function guessDelimiter(text: string, comment: string): string {
  * non-numeric cell or a NaN/inf word is refused with an error naming the line (1-based),
  * the data row (0-based), the column index and the column's name, and saying what would
  * fix it. Blank lines are skipped. A header's names become `columns`.
+ *
+ * Numbers are decimal, as JavaScript's `Number` reads them without a radix prefix: an
+ * optional sign, digits with an optional fraction (`1.`, `.5`), an optional exponent
+ * (`1e-3`), spaces around the cell allowed. Hexadecimal, octal and binary literals (`0x10`,
+ * `0o7`, `0b1`) are refused naming the cell; `nan`, `inf` and `Infinity` are refused as
+ * non-finite; an empty cell is a missing value. With `header: "auto"` the first row is a
+ * header only when one of its cells is not a number in any of these notations (so a first
+ * row `0x10,2` is data, reported, never dropped as a header). A comment line starts with
+ * `comment` outside quotes; inside a quoted multi-line field the character is data.
  *
  * @example Header, quotes and CRLF
  * ```ts
@@ -99,11 +155,6 @@ export function parseCsv(text: string, options: CsvOptions = {}): Samples {
       parameter: "comment",
     });
   }
-  if (comment !== "" && body.includes(comment)) {
-    // Blank out comment lines, keeping their line breaks so line numbers stay right.
-    const esc = comment.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
-    body = body.replace(new RegExp(`^[ \\t]*${esc}[^\\r\\n]*`, "gm"), "");
-  }
   const delimiter = options.delimiter ?? guessDelimiter(body, comment);
   if (delimiter.length !== 1 || delimiter === '"' || delimiter === "\n" || delimiter === "\r") {
     throw new SaddleError(
@@ -114,6 +165,7 @@ export function parseCsv(text: string, options: CsvOptions = {}): Samples {
       { ...fileLoc(source), parameter: "delimiter" },
     );
   }
+  if (comment !== "" && body.includes(comment)) body = stripComments(body, comment, delimiter);
   const spaces = delimiter === " ";
   const lineOf = (r: number) => lineOffset + lineOfRow(body, delimiter, r);
 
@@ -140,6 +192,15 @@ export function parseCsv(text: string, options: CsvOptions = {}): Samples {
         "parse",
         `missing value in column ${name}; fill it in, drop the row, or leave the column ` +
           "out with the `columns` option",
+        loc,
+      );
+    }
+    if (RADIX_PREFIX.test(t) && !Number.isNaN(Number(t))) {
+      throw new SaddleError(
+        "parse",
+        `${JSON.stringify(t.slice(0, 40))} in column ${name} is a ${
+          /^\s*0[xX]/.test(t) ? "hexadecimal" : /^\s*0[bB]/.test(t) ? "binary" : "octal"
+        } literal; saddlekit reads decimal numbers only: write it as ${Number(t)}`,
         loc,
       );
     }
@@ -176,7 +237,13 @@ export function parseCsv(text: string, options: CsvOptions = {}): Samples {
     }
     keep = resolveColumns(options.columns, names, width, source);
     d = keep.length;
-    const rows = Math.max(1, breaks + 1 - rowsSeen - (isHeader ? 1 : 0));
+    // A data row of `width` fields takes at least 2 width - 1 characters (a digit and a
+    // delimiter each): blank lines do not count towards the first allocation, which grows
+    // by doubling when needed.
+    const rows = Math.max(
+      1,
+      Math.min(breaks + 1 - rowsSeen - (isHeader ? 1 : 0), Math.ceil(body.length / (2 * width))),
+    );
     data = new Float64Array(rows * d);
   };
 

@@ -67,7 +67,7 @@ export function parseJson(text: string, options: JsonOptions = {}): Samples {
       }
       key = arrays[0];
     }
-    if (!(key in obj)) {
+    if (!Object.hasOwn(obj, key)) {
       throw new SaddleError("not-found", `no key "${key}"; the arrays are ${list}`, {
         ...fileLoc(source),
         parameter: "key",
@@ -121,7 +121,7 @@ export function parseJson(text: string, options: JsonOptions = {}): Samples {
       return keys[c];
     });
     for (const k of chosen) {
-      if (!(k in (first as object))) {
+      if (!Object.hasOwn(first as object, k)) {
         throw new SaddleError(
           "not-found",
           `no field "${k}" in the first record; fields are ${keys.map((x) => `"${x}"`).join(", ")}`,

@@ -5,9 +5,10 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { fromBuffer, type Samples } from "./samples.ts";
+import { writeFileAtomic } from "../files/atomic_write.ts";
+import { fromBuffer, isSamples, type Samples, samples, type SamplesInput } from "./samples.ts";
 import { type ColumnSelection, fileLoc, nameAndSelect } from "./column_selection.ts";
-import { fileError, readFull, writeAll } from "./_io.ts";
+import { fileError, readFull } from "./_io.ts";
 import {
   decodeNpyChunk,
   NATIVE_LITTLE_ENDIAN,
@@ -207,7 +208,10 @@ function truncated(
 export interface NpyWriteOptions {
   /** Stored type: `"<f8"` (float64, exact; default) or `"<f4"` (float32, rounded). */
   dtype?: "<f8" | "<f4";
-  /** Write a 1-D array `(n,)` when `d = 1` instead of `(n, 1)` (default false). */
+  /**
+   * Write a 1-D array `(n,)` when `d = 1` instead of `(n, 1)` (default: true for a flat
+   * number[] or typed array, false for Samples and rows).
+   */
   squeeze?: boolean;
 }
 
@@ -229,34 +233,60 @@ function npyHeaderBytes(s: Samples, options: NpyWriteOptions): Uint8Array {
   return out;
 }
 
-/** The little-endian bytes of values `start..start+count` of `s.data` as `dtype`. */
+/**
+ * Check every value before a byte is written: finite, and within float32's range for
+ * `"<f4"` (a value that rounds to ±Infinity in float32 is refused, naming row and column).
+ */
+function checkWritable(s: Samples, dtype: "<f8" | "<f4"): void {
+  const v = s.data;
+  for (let i = 0; i < v.length; i++) {
+    const x = v[i];
+    const bad = x - x !== 0
+      ? "non-finite"
+      : dtype === "<f4" && !isFinite(Math.fround(x))
+      ? "invalid-argument"
+      : undefined;
+    if (bad) {
+      throw new SaddleError(
+        bad,
+        bad === "non-finite"
+          ? `value is ${x}; Samples must be finite`
+          : `value ${x} does not fit in float32; write with dtype "<f8"`,
+        {
+          row: Math.floor(i / s.d),
+          column: i % s.d,
+          parameter: bad === "non-finite" ? "s" : "dtype",
+        },
+      );
+    }
+  }
+}
+
+/** The little-endian bytes of values `start..start+count` of `s.data` as `dtype` (checked). */
 function dataBytes(s: Samples, start: number, count: number, dtype: "<f8" | "<f4"): Uint8Array {
   const src = s.data.subarray(start, start + count);
-  if (dtype === "<f4") {
-    const f = Float32Array.from(src);
-    for (let i = 0; i < count; i++) {
-      if (f[i] - f[i] !== 0) {
-        const at = start + i;
-        throw new SaddleError(
-          src[i] - src[i] !== 0 ? "non-finite" : "invalid-argument",
-          `value ${src[i]} does not fit in float32; write with dtype "<f8"`,
-          { row: Math.floor(at / s.d), column: at % s.d, parameter: "dtype" },
-        );
-      }
-    }
-    return swapIfBig(new Uint8Array(f.buffer), 4);
-  }
-  for (let i = 0; i < count; i++) {
-    if (src[i] - src[i] !== 0) {
-      const at = start + i;
-      throw new SaddleError("non-finite", `value is ${src[i]}; Samples must be finite`, {
-        row: Math.floor(at / s.d),
-        column: at % s.d,
-      });
-    }
-  }
+  if (dtype === "<f4") return swapIfBig(new Uint8Array(Float32Array.from(src).buffer), 4);
   const view = new Uint8Array(src.buffer, src.byteOffset, src.byteLength);
   return NATIVE_LITTLE_ENDIAN ? view : swapIfBig(view.slice(), 8);
+}
+
+/**
+ * Samples from what the writers accept, and whether the array is written 1-D: a flat
+ * input (number[] or typed array) is n points of d = 1, written as shape (n,) unless
+ * `squeeze: false`; Samples and rows are written (n, d) unless `squeeze: true` with d = 1.
+ */
+function toWritable(
+  input: SamplesInput,
+  options: NpyWriteOptions,
+): { s: Samples; options: NpyWriteOptions } {
+  const flat = ArrayBuffer.isView(input) ||
+    (Array.isArray(input) && input.length > 0 && typeof input[0] === "number");
+  const s = isSamples(input) ? input : samples(input, { source: "s" });
+  const squeeze = options.squeeze ?? (flat && !isSamples(input));
+  const dtype = options.dtype ?? "<f8";
+  npyHeaderBytes(s, { ...options, squeeze }); // checks dtype
+  checkWritable(s, dtype);
+  return { s, options: { ...options, squeeze, dtype } };
 }
 
 function swapIfBig(bytes: Uint8Array, size: number): Uint8Array {
@@ -266,8 +296,9 @@ function swapIfBig(bytes: Uint8Array, size: number): Uint8Array {
 }
 
 /**
- * The bytes of a `.npy` file (format 1.0, C order) holding `s` as a 2-D `(n, d)` array
- * (or 1-D with `squeeze` when d = 1), readable by `numpy.load`. Column names are not
+ * The bytes of a `.npy` file (format 1.0, C order) holding the samples as a 2-D `(n, d)`
+ * array (or 1-D with `squeeze` when d = 1; a flat number[] or typed array is 1-D unless
+ * `squeeze: false`), readable by `numpy.load`. Column names are not
  * stored (the format has no place for them).
  *
  * @example
@@ -281,9 +312,10 @@ function swapIfBig(bytes: Uint8Array, size: number): Uint8Array {
  * assert.deepEqual(parseNpy(bytes).data, s.data);
  * ```
  */
-export function encodeNpy(s: Samples, options: NpyWriteOptions = {}): Uint8Array {
-  const head = npyHeaderBytes(s, options);
-  const body = dataBytes(s, 0, s.data.length, options.dtype ?? "<f8");
+export function encodeNpy(input: SamplesInput, options: NpyWriteOptions = {}): Uint8Array {
+  const w = toWritable(input, options);
+  const head = npyHeaderBytes(w.s, w.options);
+  const body = dataBytes(w.s, 0, w.s.data.length, w.options.dtype ?? "<f8");
   const out = new Uint8Array(head.length + body.length);
   out.set(head);
   out.set(body, head.length);
@@ -291,8 +323,12 @@ export function encodeNpy(s: Samples, options: NpyWriteOptions = {}): Uint8Array
 }
 
 /**
- * Write `s` to a `.npy` file (see {@linkcode encodeNpy}), in chunks, so results go back to
- * Python with `numpy.load(path)`.
+ * Write samples to a `.npy` file (see {@linkcode encodeNpy}), in chunks, so results go back
+ * to Python with `numpy.load(path)`. Accepts Samples, rows of numbers, a plain number[] or a
+ * typed array (a flat input is written 1-D, shape (n,)). Every value is checked first (finite;
+ * within float32's range for `"<f4"`), then the file is written atomically: to a temporary
+ * file beside it, renamed into place at the end, so a failure never leaves a partial file;
+ * a missing folder, no permission or a full disk is a SaddleError naming the path.
  *
  * @example
  * ```ts
@@ -307,23 +343,16 @@ export function encodeNpy(s: Samples, options: NpyWriteOptions = {}): Uint8Array
  */
 export async function writeNpy(
   path: string,
-  s: Samples,
+  input: SamplesInput,
   options: NpyWriteOptions = {},
 ): Promise<void> {
-  const head = npyHeaderBytes(s, options);
-  const dtype = options.dtype ?? "<f8";
-  let file: Deno.FsFile;
-  try {
-    file = await Deno.open(path, { write: true, create: true, truncate: true });
-  } catch (err) {
-    fileError(err, path);
-  }
-  try {
-    await writeAll(file, head);
+  const { s, options: o } = toWritable(input, options);
+  const dtype = o.dtype ?? "<f8";
+  function* chunks(): Generator<Uint8Array> {
+    yield npyHeaderBytes(s, o);
     for (let k = 0; k < s.data.length; k += CHUNK) {
-      await writeAll(file, dataBytes(s, k, Math.min(CHUNK, s.data.length - k), dtype));
+      yield dataBytes(s, k, Math.min(CHUNK, s.data.length - k), dtype);
     }
-  } finally {
-    file.close();
   }
+  await writeFileAtomic(path, chunks());
 }

@@ -4,11 +4,12 @@
  *
  * @module
  */
-import { unzipSync } from "fflate";
 import { SaddleError } from "../errors/saddle_error.ts";
 import type { Samples } from "./samples.ts";
 import { type NpyOptions, parseNpy } from "./npy.ts";
 import { readBytes } from "./_io.ts";
+import { npyHeaderSize, parseNpyHeader } from "./npy_format.ts";
+import { zipEntries, zipEntryBytes } from "./_zip.ts";
 import { fileLoc } from "./column_selection.ts";
 
 /** Options of {@linkcode parseNpz} and {@linkcode readNpz}. */
@@ -35,17 +36,19 @@ export interface NpzOptions extends NpyOptions {
  * ```
  */
 export function npzNames(bytes: Uint8Array, source?: string): string[] {
-  const names: string[] = [];
-  unzip(bytes, (f) => {
-    names.push(f.name.replace(/\.npy$/, ""));
-    return false;
-  }, source);
-  return names;
+  return zipEntries(bytes, fileLoc(source)).map((e) => e.name.replace(/\.npy$/, ""));
 }
 
 /**
  * Samples from one array of the bytes of a `.npz` archive; only the chosen entry is
  * decompressed. A missing name gives an error listing the names there are.
+ *
+ * The entry is checked as `numpy.load` checks it, and more strictly: its CRC-32 and its
+ * declared sizes must match (a damaged archive is refused, never read as other numbers),
+ * and its declared size must be what its `.npy` header describes (header plus
+ * rows x columns x item size); a deflated entry is inflated in small slices and refused as
+ * soon as it grows past that size, so an archive that claims a small array but inflates to
+ * gigabytes takes no more memory than the array.
  *
  * @example
  * ```ts
@@ -60,18 +63,14 @@ export function npzNames(bytes: Uint8Array, source?: string): string[] {
  * ```
  */
 export function parseNpz(bytes: Uint8Array, options: NpzOptions = {}): Samples {
+  const loc = fileLoc(options.source);
   const want = options.array?.replace(/\.npy$/, "");
-  const names: string[] = [];
-  const entries = unzip(bytes, (f) => {
-    const name = f.name.replace(/\.npy$/, "");
-    names.push(name);
-    return want !== undefined && name === want;
-  }, options.source);
+  const entries = zipEntries(bytes, loc);
+  const names = entries.map((e) => e.name.replace(/\.npy$/, ""));
   const list = () => names.map((x) => `"${x}"`).join(", ");
-  const keys = Object.keys(entries);
   if (want === undefined) {
     if (names.length === 0) {
-      throw new SaddleError("empty", "the archive holds no arrays", fileLoc(options.source));
+      throw new SaddleError("empty", "the archive holds no arrays", loc);
     }
     if (names.length > 1) {
       throw new SaddleError(
@@ -79,22 +78,45 @@ export function parseNpz(bytes: Uint8Array, options: NpzOptions = {}): Samples {
         `the archive holds ${names.length} arrays (${list()}); choose one with { array: "${
           names[0]
         }" }`,
-        { ...fileLoc(options.source), parameter: "array" },
+        { ...loc, parameter: "array" },
       );
     }
-    // A single array: extract it.
-    const only = unzip(bytes, () => true, options.source);
-    const k = Object.keys(only)[0];
-    return parseNpy(only[k], { ...options, source: entrySource(options.source, k) });
   }
-  if (keys.length === 0) {
+  const k = want === undefined ? 0 : names.indexOf(want);
+  if (k < 0) {
     throw new SaddleError(
       "not-found",
       `no array named "${want}"; the archive holds ${names.length ? list() : "no arrays"}`,
-      { ...fileLoc(options.source), parameter: "array" },
+      { ...loc, parameter: "array" },
     );
   }
-  return parseNpy(entries[keys[0]], { ...options, source: entrySource(options.source, keys[0]) });
+  const entry = entries[k];
+  const source = entrySource(options.source, entry.name);
+  const data = zipEntryBytes(bytes, entry, loc, {
+    after: HEAD_BYTES,
+    max: (head) => npySizeFromHeader(head, entry.size, source),
+  });
+  return parseNpy(data, { ...options, source });
+}
+
+/** Bytes of an entry read before its size is trusted: enough for any header numpy writes. */
+const HEAD_BYTES = 1 << 16;
+
+/** Total bytes of a `.npy` file from its header: header plus the data the shape describes. */
+function npySizeFromHeader(head: Uint8Array, declared: number, source: string): number {
+  const loc = fileLoc(source);
+  const size = npyHeaderSize(head, loc);
+  if (size > head.length && head.length < declared) {
+    throw new SaddleError(
+      "unsupported",
+      `.npy header of ${size} bytes inside the archive (over ${HEAD_BYTES}); numpy writes ` +
+        "headers of a few hundred bytes",
+      loc,
+    );
+  }
+  const h = parseNpyHeader(head, loc);
+  const count = h.shape.reduce((a, b) => a * b, 1);
+  return h.dataOffset + count * h.dtype.size;
 }
 
 /**
@@ -121,35 +143,4 @@ export async function readNpz(path: string, options: NpzOptions = {}): Promise<S
 
 function entrySource(source: string | undefined, entry: string): string {
   return source === undefined ? entry : `${source}:${entry}`;
-}
-
-function unzip(
-  bytes: Uint8Array,
-  filter: (f: { name: string; compression: number }) => boolean,
-  source: string | undefined,
-): Record<string, Uint8Array> {
-  try {
-    return unzipSync(bytes, {
-      filter: (f) => {
-        const take = filter(f);
-        if (take && f.compression !== 0 && f.compression !== 8) {
-          throw new SaddleError(
-            "unsupported",
-            `entry "${f.name}" uses zip compression method ${f.compression}; ` +
-              "save with numpy.savez or numpy.savez_compressed (stored or deflated)",
-            fileLoc(source),
-          );
-        }
-        return take;
-      },
-    });
-  } catch (err) {
-    if (err instanceof SaddleError) throw err;
-    throw new SaddleError(
-      "parse",
-      `not a readable .npz (zip) archive: ${(err as Error).message}; ` +
-        "save it with numpy.savez or numpy.savez_compressed",
-      fileLoc(source),
-    );
-  }
 }

@@ -266,6 +266,20 @@ function fromRecords(
   columns: readonly string[] | undefined,
   source: string | undefined,
 ): Samples {
+  // Default fields: those holding a number in the first record. A null there is a missing
+  // value, not a reason to drop the field silently: refused (choose fields with `columns`).
+  if (!columns) {
+    for (const k of Object.keys(records[0])) {
+      if (records[0][k] === null) {
+        throw new SaddleError(
+          "parse",
+          `field "${k}" is null (a missing value); fill it in, drop the record, or choose ` +
+            "the fields to read with `columns`",
+          { ...at(source), row: 0, column: k },
+        );
+      }
+    }
+  }
   const keys = columns ??
     Object.keys(records[0]).filter((k) => typeof records[0][k] === "number");
   if (keys.length === 0) {
@@ -287,7 +301,14 @@ function fromRecords(
       });
     }
     for (let j = 0; j < d; j++) {
-      const v = rec[keys[j]];
+      const v = Object.hasOwn(rec, keys[j]) ? rec[keys[j]] : undefined;
+      if (v === null) {
+        throw new SaddleError(
+          "parse",
+          `field "${keys[j]}" is null (a missing value); fill it in or drop the record`,
+          { ...at(source), row: i, column: keys[j] },
+        );
+      }
       if (v === undefined) {
         throw new SaddleError("parse", "field is missing", {
           ...at(source),

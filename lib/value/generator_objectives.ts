@@ -8,6 +8,8 @@ import { logSigmoid, sigmoid } from "../math/log_space.ts";
 import { type MimeBundle, withDisplay } from "../display/display.ts";
 import { type Estimate, meanEstimate } from "../estimate/estimate.ts";
 import { htmlTable, textTable } from "../display/table.ts";
+import { SaddleError } from "../errors/saddle_error.ts";
+import type { Samples } from "../samples/samples.ts";
 import {
   OUTPUT_EPSILON,
   type OutputScale,
@@ -63,9 +65,17 @@ export interface GeneratorObjectives {
  * ```
  */
 export function generatorObjectives(
-  dFake: ArrayLike<number>,
+  dFake: ArrayLike<number> | Samples,
   options: GeneratorObjectivesOptions,
 ): GeneratorObjectives {
+  if (options === null || typeof options !== "object") {
+    throw new SaddleError(
+      "invalid-argument",
+      "options are required: say whether dFake holds probabilities or logits, e.g. " +
+        '{ scale: "prob" } or { scale: "logit" }',
+      { parameter: "options" },
+    );
+  }
   const epsilon = options.epsilon ?? OUTPUT_EPSILON;
   const { logit, clipped } = outputsToLogits(dFake, options.scale, "dFake", epsilon);
   const n = logit.length;

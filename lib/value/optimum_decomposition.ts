@@ -15,7 +15,7 @@ import {
   logRatios,
   resolveMethod,
 } from "../divergence/integration.ts";
-import { logBase, rangeNote, scaleEstimate, unitOf } from "../estimate/units.ts";
+import { clipToRange, logBase, rangeNote, scaleEstimate, unitOf } from "../estimate/units.ts";
 import { withDisplay } from "../display/display.ts";
 import { type Estimate, exact, makeEstimate } from "../estimate/estimate.ts";
 import { htmlTable, textTable } from "../display/table.ts";
@@ -149,11 +149,14 @@ export function optimumDecomposition(
   const jsdOut = scaleEstimate(jsd, c, unit);
   const flag = rangeNote(jsdOut, 0, Math.LN2 / c, "JSD");
   if (flag) notes.push(flag);
+  // Each term has a known range (Lin 1991): V in [-ln 4, 0], KL(. || m) in [0, ln 2],
+  // JSD in [0, ln 2]; intervals are kept inside them.
+  const ln2 = Math.LN2 / c;
   const out: OptimumDecomposition = {
-    value: scaleEstimate(value, c, unit),
-    jsd: flag ? scaleEstimate(jsdOut, 1, unit, [flag]) : jsdOut,
-    klRealMix: scaleEstimate(klRealMix, c, unit),
-    klFakeMix: scaleEstimate(klFakeMix, c, unit),
+    value: clipToRange(scaleEstimate(value, c, unit), -2 * ln2, 0, "V(D*, G)"),
+    jsd: clipToRange(flag ? scaleEstimate(jsdOut, 1, unit, [flag]) : jsdOut, 0, ln2, "JSD"),
+    klRealMix: clipToRange(scaleEstimate(klRealMix, c, unit), 0, ln2, "KL(p_data || m)"),
+    klFakeMix: clipToRange(scaleEstimate(klFakeMix, c, unit), 0, ln2, "KL(p_g || m)"),
     constant,
     residual: scaleEstimate(residual, c, unit),
     method,

@@ -12,6 +12,7 @@ import {
   refitIntegration,
   refitNotes,
   runReplicates,
+  sameIntegration,
 } from "../divergence/refit_bootstrap.ts";
 import type { RefitOptions } from "../divergence/divergence_from_samples.ts";
 import type { BootstrapEstimate } from "../estimate/bootstrap.ts";
@@ -139,7 +140,11 @@ export function decompositionFromSamples(
   const { fit: _fit, replicates: _b, ...rest } = options;
   const integ = refitIntegration(setup.real.d, { ...rest, seed: setup.seed, level: setup.level });
   const [p, q] = fitBoth(setup, setup.real, setup.fake);
-  const plugIn = optimumDecomposition(p, q, integ);
+  // The plug-in is computed once, at optimumDecomposition's own defaults (a finer grid, or
+  // more draws) unless the options fix them, so its numerical se is the one it reports on
+  // its own; the replicates' coarser integration gives the numerical share of the variance.
+  const plugIn = optimumDecomposition(p, q, { ...rest, seed: setup.seed, level: setup.level });
+  const coarse = sameIntegration(rest) ? plugIn : optimumDecomposition(p, q, integ);
   const run = runReplicates(setup, TERMS.length, (pb, qb, r) => {
     // The inner bootstrap of the Monte Carlo value's interval is not needed: 2 replicates.
     const d = optimumDecomposition(pb, qb, { ...integ, seed: r, replicates: 2 });
@@ -149,6 +154,7 @@ export function decompositionFromSamples(
     refitEstimate(setup, run.columns[k], {
       what: t,
       plugIn: plugIn[t],
+      replicateError: coarse[t],
       failed: run.failed,
       bias: t !== "residual",
       ...(plugIn[t].unit ? { unit: plugIn[t].unit } : {}),

@@ -47,10 +47,10 @@ export interface ValueFromDiscriminator extends ValueOptions {
 
 /** ...or a trained discriminator's outputs on real and generated samples. */
 export interface ValueFromOutputs extends ValueOptions {
-  /** Outputs on the real samples. */
-  dReal: ArrayLike<number>;
+  /** Outputs on the real samples (numbers, or a one-column Samples as read from a file). */
+  dReal: ArrayLike<number> | Samples;
   /** Outputs on the generated samples. */
-  dFake: ArrayLike<number>;
+  dFake: ArrayLike<number> | Samples;
   /** Whether the outputs are probabilities or logits. */
   scale: OutputScale;
 }

@@ -173,19 +173,44 @@ Deno.test({
     // equal-prior weights uniform, so the bins are sklearn's unweighted ones.
     const dReal = [0.5, 0.6, 0.7, 0.8, 0.9, 1, 0.5, 0.3, 0.2, 0.9];
     const dFake = [0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.5, 0.6, 0.1, 0.7];
-    const g = discriminatorGap({ dReal, dFake, scale: "prob", bins: 10, replicates: 20 });
-    const ref = await runReference<{ prob_true: number[]; prob_pred: number[] }>(
-      "discriminator_calibration.py",
-      { y: [...dReal.map(() => 1), ...dFake.map(() => 0)], p: [...dReal, ...dFake], bins: 10 },
-    );
-    const full = g.bins.filter((b) => b.count > 0);
-    assert.equal(full.length, ref.prob_true.length);
-    full.forEach((b, i) => {
-      assertClose(b.meanD, ref.prob_pred[i], { rel: 1e-12, abs: 1e-15 }, `meanD ${i}`);
-      assertClose(b.fractionReal, ref.prob_true[i], { rel: 1e-12, abs: 1e-15 }, `fraction ${i}`);
-    });
+    const g = await binsMatchSklearn(dReal, dFake);
     // The four outputs of 0.5 are in bin 4, (0.4, 0.5]; the 0.4 is in bin 3.
     assert.equal(g.bins[4].count, 4);
     assert.equal(g.bins[3].count, 1);
   },
 });
+
+Deno.test({
+  name:
+    "discriminatorGap: bin edges as numpy's linspace, so 0.1 + 0.2 and 0.1 * 7 fall where sklearn puts them; labels (lo, hi]",
+  ignore: ignoreWithoutPython(["sklearn"]),
+  async fn() {
+    // 0.1 + 0.2 = 0.30000000000000004 = linspace(0, 1, 11)[3]; 0.1 * 7 = 0.7000000000000001
+    // = linspace(0, 1, 11)[7]: both sit exactly on an edge and belong to the bin below it.
+    const dReal = [0.1 + 0.2, 0.1 * 7, 0.1 * 7, 0.95, 0.55];
+    const dFake = [0.1 + 0.2, 0.1 + 0.2, 0.05, 0.1 * 7, 0.45];
+    const g = await binsMatchSklearn(dReal, dFake);
+    assert.equal(g.bins[2].count, 3, "0.1 + 0.2 in (0.2, 0.3]");
+    assert.equal(g.bins[6].count, 3, "0.1 * 7 in (0.6, 0.7]");
+    const text = displayBundle(g)!["text/plain"];
+    assert.match(text, /\[0\.00, 0\.10\]/);
+    assert.match(text, /\(0\.40, 0\.50\]/);
+    assert.doesNotMatch(text, /0\.50\)/);
+  },
+});
+
+/** The gap's 10 reliability bins, after checking them against sklearn's calibration_curve. */
+async function binsMatchSklearn(dReal: number[], dFake: number[]) {
+  const g = discriminatorGap({ dReal, dFake, scale: "prob", bins: 10, replicates: 20 });
+  const ref = await runReference<{ prob_true: number[]; prob_pred: number[] }>(
+    "discriminator_calibration.py",
+    { y: [...dReal.map(() => 1), ...dFake.map(() => 0)], p: [...dReal, ...dFake], bins: 10 },
+  );
+  const full = g.bins.filter((b) => b.count > 0);
+  assert.equal(full.length, ref.prob_true.length);
+  full.forEach((b, i) => {
+    assertClose(b.meanD, ref.prob_pred[i], { rel: 1e-12, abs: 1e-15 }, `meanD ${i}`);
+    assertClose(b.fractionReal, ref.prob_true[i], { rel: 1e-12, abs: 1e-15 }, `fraction ${i}`);
+  });
+  return g;
+}

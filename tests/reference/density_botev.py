@@ -40,7 +40,10 @@ def main():
     a = dct(hist, type=2)
     I = np.arange(1, n, dtype=float) ** 2
     a2 = (a[1:] / 2) ** 2
-    t = brentq(lambda t: fixed_point(t, len(x), I, a2), 1e-12, 0.1, xtol=1e-16, rtol=1e-14)
+    # N counts the distinct values, as the authors' published code does (from memory:
+    # N = length(unique(data))); equal to len(x) for continuous data.
+    N = len(np.unique(x))
+    t = brentq(lambda t: fixed_point(t, N, I, a2), 1e-12, 0.1, xtol=1e-16, rtol=1e-14)
     json.dump({"bandwidth": math.sqrt(t) * R, "t_star": t}, sys.stdout)
 
 

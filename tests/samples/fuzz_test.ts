@@ -1,9 +1,13 @@
 /**
- * Bounded-time fuzzing with fixed seeds: random and mutated bytes into the NPY and NPZ
- * parsers, random text into the CSV and JSON readers. Each input must give valid Samples
- * (right size, finite values) or throw a SaddleError, never another error type.
+ * Seeded, bounded fuzzing (a fixed number of cases per reader, so every run sees the same
+ * inputs): random and mutated bytes into the NPY and NPZ parsers, random text into the CSV
+ * and JSON readers. Each input must give valid Samples (right size, finite values) or throw
+ * a SaddleError, never another error type. Every NPY and NPZ input that is accepted is
+ * then read by Debian's numpy in one batch (tests/reference/npy_batch_load.py): numpy must
+ * read the same values, or refuse the file.
  */
 import assert from "node:assert/strict";
+import { ignoreWithoutPython, runReference } from "../_reference.ts";
 import { zipSync } from "fflate";
 import { Rng } from "../../lib/random/rng.ts";
 import { SaddleError } from "../../lib/errors/saddle_error.ts";
@@ -14,7 +18,8 @@ import { parseCsv } from "../../lib/samples/csv.ts";
 import { parseJson } from "../../lib/samples/json.ts";
 import { samples } from "../../lib/samples/samples.ts";
 
-const SECONDS = 2;
+/** Cases per reader: a few thousand in all, a few seconds on this machine. */
+const CASES = { npy: 2000, npz: 1000, csv: 15000, json: 1000 };
 
 function checkOutcome(f: () => Samples, describe: () => string): "ok" | "error" {
   let s: Samples;
@@ -31,11 +36,10 @@ function checkOutcome(f: () => Samples, describe: () => string): "ok" | "error" 
   return "ok";
 }
 
-function fuzz(seconds: number, step: (r: Rng) => "ok" | "error", seed: string) {
+function fuzz(cases: number, step: (r: Rng) => "ok" | "error", seed: string) {
   const r = new Rng(seed);
-  const until = performance.now() + seconds * 1000;
   const counts = { ok: 0, error: 0 };
-  while (performance.now() < until) counts[step(r)]++;
+  for (let k = 0; k < cases; k++) counts[step(r)]++;
   return counts;
 }
 
@@ -72,8 +76,23 @@ function mutate(r: Rng, base: Uint8Array, headerBias: boolean): Uint8Array {
   return b;
 }
 
-Deno.test(`fuzz parseNpy: random and mutated bytes for ${SECONDS} s`, () => {
-  const c = fuzz(SECONDS, (r) => {
+/** One fuzz case of a binary reader: the bytes and what saddlekit made of them. */
+interface BinaryCase {
+  readonly bytes: Uint8Array;
+  readonly result: Samples | undefined;
+}
+
+/** Run `parse` on `bytes`: Samples (checked), undefined for a SaddleError, else throw. */
+function binaryCase(bytes: Uint8Array, parse: (b: Uint8Array) => Samples): BinaryCase {
+  let result: Samples | undefined;
+  const outcome = checkOutcome(() => (result = parse(bytes)), () => hex(bytes));
+  return { bytes, result: outcome === "ok" ? result : undefined };
+}
+
+/** The NPY cases: random bytes (half with the magic) and mutated valid files. */
+function npyCases(): BinaryCase[] {
+  const r = new Rng("fuzz-npy");
+  return Array.from({ length: CASES.npy }, () => {
     let b: Uint8Array;
     const kind = r.integer(3);
     if (kind === 0) {
@@ -83,23 +102,84 @@ Deno.test(`fuzz parseNpy: random and mutated bytes for ${SECONDS} s`, () => {
     } else {
       b = mutate(r, seedsNpy[r.integer(seedsNpy.length)], kind === 1);
     }
-    return checkOutcome(() => parseNpy(b), () => hex(b));
-  }, "fuzz-npy");
-  // Both outcomes must occur, or the fuzzer is not reaching the decoder.
-  assert.ok(c.ok > 50 && c.error > 50, JSON.stringify(c));
-});
+    return binaryCase(b, (x) => parseNpy(x));
+  });
+}
 
-Deno.test(`fuzz parseNpz: mutated archives for ${SECONDS / 2} s`, () => {
+/** The NPZ cases: mutated stored and deflated archives, array "a" read. */
+function npzCases(): BinaryCase[] {
   const zips = [
     zipSync({ "a.npy": seedsNpy[0], "b.npy": seedsNpy[2] }, { level: 0 }),
     zipSync({ "a.npy": seedsNpy[0], "b.npy": seedsNpy[3] }, { level: 6 }),
   ];
-  const c = fuzz(SECONDS / 2, (r) => {
+  const r = new Rng("fuzz-npz");
+  return Array.from({ length: CASES.npz }, () => {
     const b = mutate(r, zips[r.integer(2)], false);
-    return checkOutcome(() => parseNpz(b, { array: "a" }), () => hex(b));
-  }, "fuzz-npz");
+    return binaryCase(b, (x) => parseNpz(x, { array: "a" }));
+  });
+}
+
+const counts = (cases: BinaryCase[]) => ({
+  ok: cases.filter((c) => c.result).length,
+  error: cases.filter((c) => !c.result).length,
+});
+
+Deno.test(`fuzz parseNpy: ${CASES.npy} random and mutated byte strings`, () => {
+  const c = counts(npyCases());
+  // Both outcomes must occur, or the fuzzer is not reaching the decoder.
+  assert.ok(c.ok > 50 && c.error > 50, JSON.stringify(c));
+});
+
+Deno.test(`fuzz parseNpz: ${CASES.npz} mutated archives`, () => {
+  const c = counts(npzCases());
   assert.ok(c.ok > 10 && c.error > 10, JSON.stringify(c));
 });
+
+Deno.test({
+  name: "fuzz: every NPY and NPZ case saddlekit accepts, numpy reads the same or refuses",
+  ignore: ignoreWithoutPython(["numpy"]),
+  async fn() {
+    const dir = await Deno.makeTempDir();
+    const accepted = [
+      ...npyCases().filter((c) => c.result).map((c) => ({ ...c, ext: "npy" })),
+      ...npzCases().filter((c) => c.result).map((c) => ({ ...c, ext: "npz" })),
+    ];
+    const files = accepted.map((c, k) => {
+      const path = `${dir}/${k}.${c.ext}`;
+      Deno.writeFileSync(path, c.bytes);
+      return c.ext === "npz" ? { path, array: "a" } : { path };
+    });
+    // One Python process for the whole batch.
+    const ref = await runReference<{
+      results: ({ ok: true; shape: number[]; float64_hex: string[] } | { ok: false })[];
+    }>("npy_batch_load.py", { files });
+    await Deno.remove(dir, { recursive: true });
+    let same = 0, refused = 0;
+    accepted.forEach((c, k) => {
+      const np = ref.results[k];
+      if (!np.ok) {
+        refused++;
+        return;
+      }
+      const s = c.result!;
+      const where = `${c.ext} case ${k}: ${hex(c.bytes)}`;
+      assert.equal(np.shape.reduce((a, b) => a * b, 1), s.n * s.d, where);
+      assert.ok(np.shape.length === 1 ? s.d === 1 : np.shape[0] === s.n, where);
+      assert.deepEqual(hexBits(s.data), np.float64_hex, where);
+      same++;
+    });
+    console.log(`numpy: ${same} equal, ${refused} refused of ${accepted.length} accepted`);
+    assert.ok(same > 50, `${same} equal, ${refused} refused by numpy`);
+  },
+});
+
+function hexBits(x: Float64Array): string[] {
+  const v = new DataView(x.buffer, x.byteOffset, x.byteLength);
+  return Array.from(
+    { length: x.length },
+    (_, i) => v.getBigUint64(8 * i, true).toString(16).padStart(16, "0"),
+  );
+}
 
 const CSV_ALPHABET = [
   "0",
@@ -129,8 +209,8 @@ const CSV_ALPHABET = [
   "",
 ];
 
-Deno.test(`fuzz parseCsv: random text for ${SECONDS} s`, () => {
-  const c = fuzz(SECONDS, (r) => {
+Deno.test(`fuzz parseCsv: ${CASES.csv} random texts`, () => {
+  const c = fuzz(CASES.csv, (r) => {
     let t = "";
     const len = r.integer(60);
     for (let i = 0; i < len; i++) t += CSV_ALPHABET[r.integer(CSV_ALPHABET.length)];
@@ -167,8 +247,8 @@ const JSON_ALPHABET = [
   '"k"',
 ];
 
-Deno.test(`fuzz parseJson: random token soup for ${SECONDS / 2} s`, () => {
-  const c = fuzz(SECONDS / 2, (r) => {
+Deno.test(`fuzz parseJson: ${CASES.json} random token soups`, () => {
+  const c = fuzz(CASES.json, (r) => {
     let t = "";
     const len = r.integer(30);
     for (let i = 0; i < len; i++) t += JSON_ALPHABET[r.integer(JSON_ALPHABET.length)];

@@ -207,3 +207,25 @@ Deno.test("decompositionFromSamples: bad input names the parameter", () => {
   bad(() => decompositionFromSamples(one, one, { base: 1 }), "invalid-argument", "base");
   bad(() => decompositionFromSamples(one, one, { seed: Infinity }), "invalid-argument", "seed");
 });
+
+Deno.test("decompositionFromSamples: the plug-in's numerical se is the stand-alone quadrature's", () => {
+  // The plug-in runs at optimumDecomposition's own grid, so its se is the one the
+  // decomposition of the two fits reports alone (not the coarse replicate grid's, 1e6 times
+  // larger in 2-D); the replicate grid's error goes into the variance-share note.
+  const a = gaussian([0, 0], [1, 0, 0, 1]).sample(200, 1);
+  const b = gaussian([1, 0], [2, 0, 0, 1]).sample(200, 2);
+  const dec = decompositionFromSamples(a, b, { replicates: 4, seed: 3 });
+  const alone = optimumDecomposition(
+    fitKde(a, { bandwidth: "scott" }),
+    fitKde(b, { bandwidth: "scott" }),
+    {
+      seed: 3,
+    },
+  );
+  assert.equal(dec.plugIn.jsd.se, alone.jsd.se);
+  assert.equal(dec.plugIn.value.se, alone.value.se);
+  const share = dec.jsd.notes.find((n) => /numerical error of a replicate/.test(n))!;
+  assert.ok(share, dec.jsd.notes.join("\n"));
+  const repSe = Number(/se ([0-9.e+-]+)\)/.exec(share)![1]);
+  assert.ok(repSe > 100 * alone.jsd.se!, `replicate se ${repSe} vs plug-in ${alone.jsd.se}`);
+});
