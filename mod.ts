@@ -19,6 +19,7 @@ export * from "./lib/random/mod.ts";
 export * from "./lib/estimate/mod.ts";
 export * from "./lib/linalg/mod.ts";
 export * from "./lib/density/mod.ts";
+export * from "./lib/neighbors/mod.ts";
 export * from "./lib/discriminator/mod.ts";
 export * from "./lib/value/mod.ts";
 export * from "./lib/divergence/mod.ts";

@@ -162,4 +162,20 @@ if (import.meta.main) {
   await write("training_curves", sk.plotTrainingCurves(lab));
   await write("phase_snapshots", sk.plotPhaseSnapshots(lab));
   await write("mode_coverage", sk.plotModeCoverage(lab.snapshots.at(-1)!.coverage!));
+
+  // Feature space: the spectrum embeddings of the fleet and of generators A and B.
+  const spectra = async (f: string) =>
+    await sk.readNpy(new URL(`../data/demo/spectra_${f}.npy`, import.meta.url).pathname);
+  const [sReal, sA, sB] = [await spectra("real"), await spectra("gen_a"), await spectra("gen_b")];
+  const prB = sk.precisionRecall(sReal, sB, { seed: SEED, replicates: 50 });
+  await write("precision_recall", sk.plotPrecisionRecall(sReal, sB, prB, { title: "Generator B" }));
+  const comparison = sk.compareGenerators(sReal, { A: sA, B: sB }, [
+    "frechet",
+    "recall",
+    "coverage",
+  ], {
+    replicates: 10,
+    seed: SEED,
+  });
+  await write("generator_comparison", sk.plotGeneratorComparison(comparison));
 }

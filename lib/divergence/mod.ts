@@ -10,6 +10,14 @@ export * from "./gaussian_closed_forms.ts";
 export * from "./discrete.ts";
 export * from "./integration_options.ts";
 export * from "./divergence_from_samples.ts";
+export * from "./knn_estimators.ts";
+export * from "./wasserstein.ts";
+export * from "./energy_distance.ts";
+export * from "./mmd.ts";
+export * from "./mmd_permutations.ts";
+export * from "./median_bandwidth.ts";
+export * from "./feature_statistics.ts";
+export * from "./frechet.ts";
 // Types of other folders that this folder's API mentions, re-exported so the module documents alone.
 export type { RandomSource, Rng } from "../random/rng.ts";
 export type { SampleRecord, Samples, SamplesInput } from "../samples/samples.ts";

@@ -42,6 +42,8 @@
  * | phases of training: p_data, p_g and D at chosen steps | {@linkcode plotPhaseSnapshots} |
  * | Jacobian eigenvalues with the stability region | {@linkcode plotEigenvalues} |
  * | per-mode coverage bars | {@linkcode plotModeCoverage} |
+ * | metrics of several generators with intervals and verdicts | {@linkcode plotGeneratorComparison} |
+ * | k-NN precision/recall on a 2-D projection | {@linkcode plotPrecisionRecall} |
  *
  * New figures are small additions: {@linkcode composeFigure} takes panels of Plot layers
  * and a legend; {@linkcode axisLabel}, {@linkcode lineStyle}, {@linkcode referenceY} and
@@ -77,6 +79,7 @@ export type { Discriminator } from "../discriminator/types.ts";
 export type { DiscriminatorGap, ReliabilityBin } from "../discriminator/discriminator_gap.ts";
 export type { GeneratorObjectives } from "../value/generator_objectives.ts";
 export type { AxisRange, ColumnLabelOptions, EstimateOrNumber } from "./input_types.ts";
+export type { GeneratorComparison, PrecisionRecall } from "../metrics/mod.ts";
 export {
   composeFigure,
   type FrameSpec,
@@ -136,3 +139,8 @@ export type {
   ValueSurface,
 } from "../game/mod.ts";
 export type { ModeCoverage } from "../metrics/mod.ts";
+export {
+  type GeneratorComparisonPlotOptions,
+  plotGeneratorComparison,
+} from "./generator_comparison_plot.ts";
+export { plotPrecisionRecall, type PrecisionRecallPlotOptions } from "./precision_recall_plot.ts";

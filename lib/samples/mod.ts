@@ -9,6 +9,7 @@ export * from "./transform.ts";
 export * from "./csv.ts";
 export * from "./json.ts";
 export * from "./npy.ts";
+export * from "./npy_chunks.ts";
 export * from "./npz.ts";
 export * from "./read.ts";
 export type { ColumnSelection } from "./column_selection.ts";

@@ -8,13 +8,13 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import { writeFileAtomic } from "../files/atomic_write.ts";
 import { fromBuffer, isSamples, type Samples, samples, type SamplesInput } from "./samples.ts";
 import { type ColumnSelection, fileLoc, nameAndSelect } from "./column_selection.ts";
-import { fileError, readFull } from "./_io.ts";
+import { readFull } from "./_io.ts";
+import { openFile, readNpyHead } from "./_npy_open.ts";
 import {
   decodeNpyChunk,
   NATIVE_LITTLE_ENDIAN,
   npyDims,
   type NpyHeader,
-  npyHeaderSize,
   parseNpyHeader,
 } from "./npy_format.ts";
 
@@ -105,22 +105,10 @@ export function parseNpy(bytes: Uint8Array, options: NpyOptions = {}): Samples {
 export async function readNpy(path: string, options: NpyOptions = {}): Promise<Samples> {
   const source = options.source ?? path;
   const loc = { file: source };
-  let file: Deno.FsFile;
-  try {
-    file = await Deno.open(path, { read: true });
-  } catch (err) {
-    fileError(err, source);
-  }
+  const file = await openFile(path, source);
   try {
     const size = (await file.stat()).size;
-    const prefix = new Uint8Array(12);
-    const got = await readFull(file, prefix);
-    const headerSize = npyHeaderSize(prefix.subarray(0, got), loc);
-    await file.seek(0, Deno.SeekMode.Start);
-    const head = new Uint8Array(headerSize);
-    const gotHead = await readFull(file, head);
-    const h = parseNpyHeader(head.subarray(0, gotHead), loc);
-    const { n, d } = npyDims(h, loc);
+    const { h, headerSize, n, d } = await readNpyHead(file, loc);
     const s = h.dtype.size, total = n * d;
     if (size - headerSize < total * s) throw truncated(h, n, d, size - headerSize, loc);
     const out = allocate(total, loc);

@@ -179,7 +179,54 @@ const EXPECTED: Record<string, () => Promise<Record<string, unknown>>> = {
       coveringMeanD: [lastK.meanDReal, lastK.meanDFake],
     });
   },
+  "04_feature_space.ipynb": async () => {
+    const SEED = 15;
+    const [real, genA, genB] = await Promise.all(
+      ["real", "gen_a", "gen_b"].map((f) =>
+        sk.readNpy(new URL(`../../data/demo/spectra_${f}.npy`, import.meta.url).pathname)
+      ),
+    );
+    const stats: Record<string, sk.FeatureStatistics> = {};
+    for (const f of ["real", "gen_a", "gen_b"]) {
+      const path = new URL(`../../data/demo/spectra_${f}.npy`, import.meta.url).pathname;
+      stats[f] = await sk.readFeatureStatistics(path, { rows: 500 });
+    }
+    const prA = sk.precisionRecall(real, genA, { seed: SEED });
+    const prB = sk.precisionRecall(real, genB, { seed: SEED });
+    const dcA = sk.densityCoverage(real, genA, { seed: SEED });
+    const dcB = sk.densityCoverage(real, genB, { seed: SEED });
+    const clfB = sk.classifierTest(real, genB, { seed: SEED });
+    const comparison = sk.compareGenerators(real, { A: genA, B: genB }, [
+      "frechet",
+      "recall",
+      "coverage",
+    ], { replicates: 12, seed: SEED });
+    return {
+      precisionA: prA.precision.value,
+      recallA: prA.recall.value,
+      precisionB: prB.precision.value,
+      recallB: prB.recall.value,
+      coverageA: dcA.coverage.value,
+      coverageB: dcB.coverage.value,
+      densityB: dcB.density.value,
+      // From streamed statistics, as the notebook computes them.
+      frechetA: sk.frechetDistance(stats.real, stats.gen_a).value,
+      frechetB: sk.frechetDistance(stats.real, stats.gen_b).value,
+      frechetInfinityA: sk.frechetExtrapolated(real, genA, { seed: SEED }).infinite.value,
+      mmdPValueA: sk.mmdTest(real, genA, { permutations: 100, seed: SEED }).pValue,
+      mmdPValueB: sk.mmdTest(real, genB, { permutations: 100, seed: SEED }).pValue,
+      classifierAccuracyB: clfB.statistic.value,
+      classifierPValueB: clfB.pValue,
+      verdicts: comparison.differences.map((d) => d.resolved ? d.better : null),
+    };
+  },
 };
+
+/**
+ * Notebooks whose recorded numbers are compared to 9 significant digits: 04 sums through
+ * native BLAS, whose last bits may differ between processes.
+ */
+const ROUNDED = new Set(["04_feature_space.ipynb"]);
 
 Deno.test("notebooks: nbformat 4, Deno kernelspec, ../mod.ts import, figure and record cells", async () => {
   assert.ok(notebooks.length >= 2, `found ${notebooks.length} notebooks`);
@@ -229,6 +276,11 @@ for (const name of notebooks) {
       const run = await pending;
       assert.deepEqual(problems(run), [], `${name} (executed copy: ${run.executed})`);
       for (const [key, value] of Object.entries(expected)) {
+        if (ROUNDED.has(name) && typeof value === "number") {
+          const got = run.records[key] as number;
+          assert.equal(got.toPrecision(9), value.toPrecision(9), `${name}: recorded ${key}`);
+          continue;
+        }
         assert.deepEqual(run.records[key], value, `${name}: recorded ${key}`);
       }
     },
