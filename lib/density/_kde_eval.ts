@@ -7,6 +7,7 @@
  * @module
  */
 import type { EvalMethod } from "./kde_types.ts";
+import { fgtEvaluator } from "./_kde_fgt.ts";
 
 /** Terms more than this many nats below the largest are skipped (1e-16 relative). */
 export const LOG_CUT = 16 * Math.LN10;
@@ -38,9 +39,20 @@ export interface KernelSumEvaluator {
   evaluate(q: Float64Array, out: Float64Array, from: number, to: number): void;
 }
 
-/** Choose the evaluator for a dimension: sorted for 1-D, tree for 2-D and 3-D, else blocked. */
+/**
+ * Choose the evaluator for a dimension: sorted for 1-D, the fast Gauss transform for 2-D
+ * (large jobs only, see {@linkcode methodForJob}), tree for 3-D, else blocked.
+ */
 export function defaultMethod(d: number): EvalMethod {
-  return d === 1 ? "sorted" : d <= 3 ? "tree" : "blocked";
+  return d === 1 ? "sorted" : d === 2 ? "fgt" : d <= 3 ? "tree" : "blocked";
+}
+
+/** Jobs (centres x queries) below this size use the exact tree instead of the transform. */
+export const FGT_MIN_PAIRS = 5e7;
+
+/** The evaluator a job of `n` centres and `m` queries uses: "fgt" only for large jobs. */
+export function methodForJob(method: EvalMethod, n: number, m: number): EvalMethod {
+  return method === "fgt" && n * m < FGT_MIN_PAIRS ? "tree" : method;
 }
 
 /**
@@ -56,6 +68,7 @@ export function makeEvaluator(
   const n = z.length / d;
   if (method === "sorted" && d === 1) return sortedEvaluator(z, lw, n);
   if (method === "tree") return treeEvaluator(z, d, lw, n);
+  if (method === "fgt" && d === 2) return fgtEvaluator(z, lw, treeEvaluator(z, d, lw, n));
   return blockedEvaluator(z, d, lw, n);
 }
 

@@ -34,6 +34,8 @@ export function workerCount(
   minPairs: number,
   requested?: number,
 ): number {
+  // The transform costs a setup per thread and little per query: one thread.
+  if (c.method === "fgt") return 1;
   const n = c.z.length / c.d;
   const cores = Math.min(8, navigator.hardwareConcurrency ?? 1);
   const workers = Math.max(1, Math.min(requested ?? cores, m));

@@ -23,7 +23,13 @@ import {
   toMatrix,
 } from "./_common.ts";
 import { cvFactor } from "./_kde_cv.ts";
-import { defaultMethod, type KernelSumEvaluator, makeEvaluator, whiten } from "./_kde_eval.ts";
+import {
+  defaultMethod,
+  type KernelSumEvaluator,
+  makeEvaluator,
+  methodForJob,
+  whiten,
+} from "./_kde_eval.ts";
 import {
   evaluateInWorkers,
   evaluateShared,
@@ -88,7 +94,7 @@ class Kde implements KdeDensity {
   readonly #extra: Record<string, unknown>;
   readonly #notes: string[];
   readonly #syncMinPairs: number;
-  #evaluator?: ReturnType<typeof makeEvaluator>;
+  readonly #evaluators = new Map<EvalMethod, KernelSumEvaluator>();
 
   constructor(o: KdeParts) {
     const points = o.points, d = points.d;
@@ -116,34 +122,48 @@ class Kde implements KdeDensity {
   logPdf(x: Samples): Float64Array {
     checkQuery(x, this.d, "kde");
     const q = whiten(x.data, this.d, this.#L);
-    const threads = workerCount(this.#centres, x.n, this.#syncMinPairs);
+    const c = this.#job(x.n);
+    const threads = workerCount(c, x.n, this.#syncMinPairs);
     const out = threads > 1
-      ? evaluateShared(this.#centres, this.#here(), q, x.n, threads)
-      : this.#evaluateHere(q, x.n);
+      ? evaluateShared(c, this.#here(c.method), q, x.n, threads)
+      : this.#evaluateHere(q, x.n, c.method);
     for (let i = 0; i < x.n; i++) out[i] += this.#logNorm;
     return out;
   }
 
-  #here(): KernelSumEvaluator {
+  /** The centres with the evaluator a job of `m` queries uses (the transform for large ones). */
+  #job(m: number): KernelCentres {
     const c = this.#centres;
-    return this.#evaluator ??= makeEvaluator(c.z, c.d, c.lw, c.method);
+    const method = methodForJob(c.method, c.z.length / c.d, m);
+    return method === c.method ? c : { ...c, method };
   }
 
-  #evaluateHere(q: Float64Array, m: number): Float64Array {
+  #here(method: EvalMethod): KernelSumEvaluator {
+    let e = this.#evaluators.get(method);
+    if (!e) {
+      const c = this.#centres;
+      e = makeEvaluator(c.z, c.d, c.lw, method);
+      this.#evaluators.set(method, e);
+    }
+    return e;
+  }
+
+  #evaluateHere(q: Float64Array, m: number, method: EvalMethod): Float64Array {
     const out = new Float64Array(m);
-    this.#here().evaluate(q, out, 0, m);
+    this.#here(method).evaluate(q, out, 0, m);
     return out;
   }
 
   async logPdfParallel(x: Samples, options: ParallelOptions = {}): Promise<Float64Array> {
     checkQuery(x, this.d, "kde");
-    const workers = workerCount(this.#centres, x.n, options.minPairs ?? 4e6, options.workers);
+    const c = this.#job(x.n);
+    const workers = workerCount(c, x.n, options.minPairs ?? 4e6, options.workers);
     const q = whiten(x.data, this.d, this.#L);
     let out: Float64Array;
-    if (workers < 2) out = this.#evaluateHere(q, x.n);
+    if (workers < 2) out = this.#evaluateHere(q, x.n, c.method);
     else {
       try {
-        out = await evaluateInWorkers(this.#centres, q, x.n, workers);
+        out = await evaluateInWorkers(c, q, x.n, workers);
       } catch {
         // Workers unavailable (permissions) or failed: evaluate here instead.
         return this.logPdf(x);
@@ -200,10 +220,15 @@ class Kde implements KdeDensity {
  * H directly.
  *
  * `logPdf` is exact up to terms below 1e-16 of the largest kernel term and computed relative
- * to that term, so queries far from every point still get a finite log-density. A column
+ * to that term, so queries far from every point still get a finite log-density. In 2-D,
+ * jobs of at least 5e7 centre-query pairs use the fast Gauss transform (Greengard & Strain
+ * 1991) with a guaranteed relative error of at most 1e-10 on the density; a query where
+ * that bound is not met (far tails, empty regions) is summed exactly. `method: "tree"`
+ * keeps every job exact. A column
  * with zero variance throws (drop it, or pass an explicit bandwidth matrix).
  *
- * References: Scott 1992; Silverman 1986; Botev, Grotowski & Kroese 2010 (Ann. Stat.).
+ * References: Scott 1992; Silverman 1986; Botev, Grotowski & Kroese 2010 (Ann. Stat.);
+ * Greengard & Strain 1991, The fast Gauss transform (SIAM J. Sci. Stat. Comput.).
  *
  * @example Fit, evaluate in the far tail, sample
  * ```ts
@@ -235,6 +260,13 @@ export function fitKde(input: SamplesInput, options: KdeOptions = {}): KdeDensit
   }
   const bw = options.bandwidth ?? "scott";
   const method = options.method ?? defaultMethod(d);
+  if (method === "fgt" && d !== 2) {
+    throw new SaddleError(
+      "invalid-argument",
+      `method "fgt" (the fast Gauss transform) is for 2-D data, got d = ${d}; leave method unset`,
+      { parameter: "method" },
+    );
+  }
   const notes: string[] = [];
   const extra: Record<string, unknown> = {};
   const syncMinPairs = options.parallelMinPairs ?? 5e7;

@@ -9,7 +9,7 @@ import type { Samples } from "../samples/types.ts";
 import type { Density } from "./types.ts";
 
 /** Which evaluator: sorted array (1-D), k-d tree (low d), blocked brute force (any d). */
-export type EvalMethod = "sorted" | "tree" | "blocked";
+export type EvalMethod = "sorted" | "tree" | "blocked" | "fgt";
 
 /** A named bandwidth rule. */
 export type BandwidthRule = "scott" | "silverman" | "cv" | "diffusion";
@@ -31,7 +31,12 @@ export interface KdeOptions {
   cvFactors?: ArrayLike<number>;
   /** Held-out points used by `"cv"` (default 1000; evenly spaced rows when n is larger). */
   cvMaxPoints?: number;
-  /** Evaluator (default: sorted for 1-D, k-d tree for 2-D/3-D, blocked for d >= 4). */
+  /**
+   * Evaluator (default: sorted for 1-D, "fgt" for 2-D, k-d tree for 3-D, blocked for d >= 4).
+   * "fgt" (2-D only) runs jobs of at least 5e7 centre-query pairs through the fast Gauss
+   * transform, with a guaranteed relative error of at most 1e-10 on the density (queries
+   * where the bound is not met go to the exact tree), and smaller jobs through the tree.
+   */
   method?: EvalMethod;
   /**
    * Jobs of at least this many kernel terms (fit points x queries) make `logPdf` split the

@@ -32,7 +32,7 @@ export interface FeatureOptions {
 }
 
 /** Median pairwise distance of up to 400 points (the median heuristic). */
-function medianDistance(z: Samples): number {
+export function medianDistance(z: Samples): number {
   const m = Math.min(z.n, 400), d = z.d;
   const dists: number[] = [];
   for (let i = 0; i < m; i++) {
@@ -45,6 +45,11 @@ function medianDistance(z: Samples): number {
   dists.sort((a, b) => a - b);
   const med = dists.length ? dists[dists.length >> 1] : 1;
   return med > 0 ? med : 1;
+}
+
+/** The median-heuristic RBF bandwidth of `train` in standardised units. */
+export function medianBandwidth(train: Samples): number {
+  return medianDistance(standardize(train).samples);
 }
 
 /** Fit the feature map on `train` (standardisation, bandwidth, random frequencies). */

@@ -5,7 +5,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { cholesky, choleskySolve } from "../linalg/cholesky.ts";
+import { cholesky, choleskySolve, syrk } from "../linalg/mod.ts";
 import { sigmoid, softplus } from "../math/log_space.ts";
 
 /** A fitted model: `eta = intercept + x · coef`. */
@@ -48,42 +48,48 @@ function objective(
  * finite on separable data (disjoint supports).
  */
 export function fitLogistic(
-  { x, p, y, s, lambda, maxIterations = 100 }: {
+  { x, p, y, s, lambda, maxIterations = 100, start, tolerance = 1e-14 }: {
     x: Float64Array;
     p: number;
     y: Uint8Array;
     s: Float64Array;
     lambda: number;
     maxIterations?: number;
+    /** Warm start: intercept then coefficients (length p + 1). */
+    start?: Float64Array;
+    /** Stop when the objective improves by less than this, relative (default 1e-14). */
+    tolerance?: number;
   },
 ): LogisticFit {
   const n = y.length;
   const q = p + 1;
-  let beta = new Float64Array(q);
+  let beta = start ? Float64Array.from(start) : new Float64Array(q);
   const eta = new Float64Array(n);
   let f = objective({ x, p, y, s, beta, lambda, eta });
   let sw = 0;
   for (let i = 0; i < n; i++) sw += s[i];
-  const H = new Float64Array(q * q), g = new Float64Array(q), row = new Float64Array(q);
+  const g = new Float64Array(q);
   let converged = false, it = 0;
+  // The Hessian Xᵀ W X (with the intercept column) is one symmetric product of the rows
+  // scaled by sqrt(w_i), on lib/linalg's backend (native BLAS when available).
+  const scaled = new Float64Array(n * q);
   for (; it < maxIterations; it++) {
-    H.fill(0);
     g.fill(0);
     for (let i = 0; i < n; i++) {
       const mu = sigmoid(eta[i]);
       const r = s[i] * (mu - y[i]) / sw;
-      const w = s[i] * mu * (1 - mu) / sw;
-      row[0] = 1;
-      for (let j = 0; j < p; j++) row[j + 1] = x[i * p + j];
-      for (let a = 0; a < q; a++) {
-        g[a] += r * row[a];
-        const wa = w * row[a];
-        if (wa === 0) continue;
-        for (let b = 0; b <= a; b++) H[a * q + b] += wa * row[b];
+      const root = Math.sqrt(s[i] * mu * (1 - mu) / sw);
+      const o = i * q, xo = i * p;
+      scaled[o] = root;
+      g[0] += r;
+      for (let j = 0; j < p; j++) {
+        const v = x[xo + j];
+        scaled[o + j + 1] = root * v;
+        g[j + 1] += r * v;
       }
     }
+    const H = syrk(scaled, { n, d: q });
     for (let a = 0; a < q; a++) {
-      for (let b = 0; b < a; b++) H[b * q + a] = H[a * q + b];
       if (a > 0) {
         H[a * q + a] += lambda;
         g[a] += lambda * beta[a];
@@ -113,7 +119,7 @@ export function fitLogistic(
     beta = next;
     const df = f - fNew;
     f = fNew;
-    if (maxStep < 1e-9 || df < 1e-14 * Math.max(1, Math.abs(f))) {
+    if (maxStep < 1e-9 || df < tolerance * Math.max(1, Math.abs(f))) {
       converged = true;
       it++;
       break;

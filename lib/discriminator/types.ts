@@ -26,3 +26,29 @@ export interface Discriminator {
  * kernel ("rff", Rahimi & Recht 2007).
  */
 export type FeatureKind = "linear" | "quadratic" | "rff";
+
+/** One setting the tuning tried, with its cross-validated log-loss (nats, equal priors). */
+export interface TuningCandidate {
+  /** RBF bandwidth in standardised units (undefined for linear/quadratic features). */
+  readonly bandwidth?: number;
+  /** Random Fourier features (undefined for linear/quadratic features). */
+  readonly randomFeatures?: number;
+  /** Ridge penalty at the tuning sample's size. */
+  readonly regularization: number;
+  /** Mean validation log-loss over the tuning folds. */
+  readonly logLoss: number;
+}
+
+/** What the tuning chose and how. */
+export interface ClassifierTuning {
+  /** Every setting tried, in order. */
+  readonly candidates: readonly TuningCandidate[];
+  /** The best candidate (its penalty at the tuning sample's size). */
+  readonly best: TuningCandidate;
+  /** Points per side used (a seeded subsample when the inputs are larger). */
+  readonly points: readonly [number, number];
+  /** Folds of the tuning cross-validation. */
+  readonly folds: number;
+  /** Median-heuristic bandwidth the bandwidth candidates are multiples of. */
+  readonly medianBandwidth?: number;
+}

@@ -1,5 +1,7 @@
 import assert from "node:assert/strict";
 import { fitKde } from "../../lib/density/kde.ts";
+import { makeEvaluator } from "../../lib/density/_kde_eval.ts";
+import { FGT_RELATIVE_ERROR, type FgtEvaluator, fgtEvaluator } from "../../lib/density/_kde_fgt.ts";
 import { kdeGrid } from "../../lib/density/kde_grid.ts";
 import { silvermanFactor } from "../../lib/density/bandwidth.ts";
 import { Rng } from "../../lib/random/rng.ts";
@@ -289,4 +291,67 @@ Deno.test("kde: a query so far out that (x - z)² overflows gives -Infinity, nev
     assert.deepEqual(Array.from(w.subarray(0, 2)), [-Infinity, -Infinity], method);
     assert.ok(Number.isFinite(w[2]), method);
   }
+});
+
+Deno.test("kde 2-D fast Gauss transform: relative error <= 1e-10 against exact sums, weighted, far tails", () => {
+  // The bound is the transform's (Greengard & Strain 1991 series, Cramér's inequality):
+  // checked here against two exact evaluators, on the core, in thin regions and far out.
+  const r = new Rng(41);
+  const n = 3000, m = 3000;
+  const z = new Float64Array(n * 2);
+  for (let i = 0; i < n; i++) {
+    const mode = i % 3;
+    z[2 * i] = r.normal(mode === 2 ? 9 : 0, 4);
+    z[2 * i + 1] = r.normal(mode === 1 ? -6 : 0, 3);
+  }
+  const lw = Float64Array.from({ length: n }, () => Math.log(r.uniform(0.01, 1)));
+  let total = -Infinity;
+  for (const v of lw) total = Math.max(total, v) + Math.log1p(Math.exp(-Math.abs(total - v)));
+  for (let i = 0; i < n; i++) lw[i] -= total;
+  const q = new Float64Array(m * 2);
+  for (let i = 0; i < m; i++) {
+    const far = i % 50 === 0 ? 6 : 1;
+    q[2 * i] = far * r.normal(3, 6);
+    q[2 * i + 1] = far * r.normal(-2, 5);
+  }
+  for (const weights of [null, lw]) {
+    const tree = makeEvaluator(z, 2, weights, "tree");
+    const fgt = fgtEvaluator(z, weights, tree) as FgtEvaluator;
+    assert.equal(fgt.method, "fgt");
+    const a = new Float64Array(m), b = new Float64Array(m), c = new Float64Array(m);
+    fgt.evaluate(q, a, 0, m);
+    tree.evaluate(q, b, 0, m);
+    makeEvaluator(z, 2, weights, "blocked").evaluate(q, c, 0, m);
+    let worst = 0;
+    for (let i = 0; i < m; i++) {
+      assert.ok(Number.isFinite(a[i]), `query ${i}`);
+      worst = Math.max(worst, Math.abs(Math.expm1(a[i] - b[i])), Math.abs(Math.expm1(a[i] - c[i])));
+    }
+    assert.ok(worst <= FGT_RELATIVE_ERROR, `density rel err ${worst}`);
+    // The transform did the bulk of the work; the far queries went to the exact evaluator.
+    assert.ok(fgt.accepted > 0.8 * m && fgt.accepted < m, `accepted ${fgt.accepted}`);
+  }
+});
+
+Deno.test({
+  name:
+    "kde 2-D: a large job takes the transform, matches scipy's logpdf, same bits for any worker count",
+  ignore: ignoreWithoutPython(["numpy", "scipy"]),
+  async fn() {
+    const n = 8000, m = 8000;
+    const x = data(n, 2, 51), q = queries(m, 2, 52);
+    const kde = fitKde(fromBuffer(x, 2));
+    assert.equal(kde.method, "fgt");
+    const lp = kde.logPdf(fromBuffer(q, 2));
+    const ref = await runReference<ScipyKde>("density_kde.py", { data: x, d: 2, queries: q });
+    // 1e-10 relative on the density is at most ~1e-10 absolute on its log.
+    let worst = 0;
+    for (let i = 0; i < m; i++) worst = Math.max(worst, Math.abs(lp[i] - ref.logpdf[i]));
+    assert.ok(worst <= 2e-10, `log-density abs err ${worst}`);
+    const par = await kde.logPdfParallel(fromBuffer(q, 2), { workers: 2, minPairs: 0 });
+    assert.deepEqual(Array.from(par), Array.from(lp));
+    const sync = fitKde(fromBuffer(x, 2), { parallelMinPairs: 0 }).logPdf(fromBuffer(q, 2));
+    assert.deepEqual(Array.from(sync), Array.from(lp));
+    assert.throws(() => fitKde(fromBuffer(x, 2).data.subarray(0, 100), { method: "fgt" }), /2-D/);
+  },
 });
