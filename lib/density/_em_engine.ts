@@ -142,7 +142,7 @@ export class EmEngine {
       const ctrl = this.#ctrl!, par = this.#par!;
       const pl = paramLayout(k, d);
       par.set(p.mu, pl.mu);
-      par.set(prep.U, pl.U);
+      par.set(prep.L, pl.L);
       par.set(prep.base, pl.base);
       Atomics.store(ctrl, CTRL_CMD, stats ? CMD_STATS : CMD_LL);
       const gen = Atomics.add(ctrl, CTRL_GEN, 1) + 1;

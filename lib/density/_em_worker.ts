@@ -30,9 +30,9 @@ export const CTRL_GEN = 0, CTRL_CMD = 1, CTRL_ERR = 2, CTRL_DONE = 3;
 /** Commands. */
 export const CMD_STATS = 1, CMD_LL = 2, CMD_STOP = 3;
 
-/** Offsets of the parameter block (Float64): mu, U, base. */
+/** Offsets of the parameter block (Float64): mu, L (Cholesky factors), base. */
 export function paramLayout(k: number, d: number) {
-  return { mu: 0, U: k * d, base: k * d + k * d * d, size: k * d + k * d * d + k };
+  return { mu: 0, L: k * d, base: k * d + k * d * d, size: k * d + k * d * d + k };
 }
 
 /** Offsets of one worker's stats block (Float64): nk, s1, s2, total. */
@@ -57,7 +57,7 @@ scope.onmessage = (e: MessageEvent<EmWorkerSetup>) => {
   const all = new Float64Array(s.stats);
   const mu = par.subarray(pl.mu, pl.mu + k * d);
   const prep = {
-    U: par.subarray(pl.U, pl.U + k * d * d),
+    L: par.subarray(pl.L, pl.L + k * d * d),
     base: par.subarray(pl.base, pl.base + k),
   };
   let seen = 0;
@@ -106,7 +106,7 @@ export function runPart({
   s: { bounds: number[]; full: boolean };
   data: Float64Array;
   mu: Float64Array;
-  prep: { U: Float64Array; base: Float64Array };
+  prep: { L: Float64Array; base: Float64Array };
   ll: Float64Array;
   withStats: boolean;
 }): void {

@@ -5,9 +5,9 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { cholesky } from "../linalg/cholesky.ts";
+import { cholesky, trsm } from "../linalg/cholesky.ts";
 import type { Samples } from "../samples/types.ts";
-import { expNeg, LOG_CUT, whiten } from "./_kde_eval.ts";
+import { expNeg, LOG_CUT } from "./_kde_eval.ts";
 import { scottFactor } from "./bandwidth.ts";
 import type { KdeOptions } from "./kde_types.ts";
 
@@ -103,7 +103,13 @@ export function cvFactor(
   },
 ): number {
   const d = s.d;
-  const u = whiten(s.data, d, cholesky(cov, d, { name: "data covariance" }));
+  // Every row whitened by the data covariance: one triangular solve over the block.
+  const u = trsm(cholesky(cov, d, { name: "data covariance" }), s.data, {
+    m: s.n,
+    n: d,
+    side: "right",
+    transpose: true,
+  });
   const maxHeld = options.cvMaxPoints ?? 1000;
   const scott = scottFactor(neff, d);
   let grid: Float64Array;

@@ -368,18 +368,3 @@ function treeEvaluator(z0: Float64Array, d: number, lw0: Float64Array | null, n:
     },
   };
 }
-
-/** `L⁻¹ x` for every row (forward substitution with the lower Cholesky factor). */
-export function whiten(x: Float64Array, d: number, L: Float64Array): Float64Array {
-  const n = x.length / d;
-  const z = new Float64Array(x.length);
-  for (let r = 0; r < n; r++) {
-    const o = r * d;
-    for (let i = 0; i < d; i++) {
-      let s = x[o + i];
-      for (let k = 0; k < i; k++) s -= L[i * d + k] * z[o + k];
-      z[o + i] = s / L[i * d + i];
-    }
-  }
-  return z;
-}

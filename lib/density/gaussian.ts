@@ -1,11 +1,13 @@
 /**
  * The multivariate normal density N(mean, cov): exact log-density through the Cholesky
- * factor and exact sampling `mean + L z`.
+ * factor (the Mahalanobis terms of all query rows as blocked triangular solves, lib/linalg)
+ * and exact sampling `mean + L z`.
  *
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
 import { cholesky, logDetCholesky } from "../linalg/cholesky.ts";
+import { squaredMahalanobis } from "../linalg/mahalanobis.ts";
 import { type RandomSource, type Rng, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples } from "../samples/samples.ts";
 import {
@@ -56,21 +58,13 @@ class Gaussian implements GaussianDensity {
 
   logPdf(x: Samples): Float64Array {
     checkQuery(x, this.d, "gaussian");
-    const { d, mean } = this;
-    const L = this.choleskyFactor, z = this.#z, data = x.data;
-    const out = new Float64Array(x.n);
-    for (let r = 0; r < x.n; r++) {
-      const o = r * d;
-      let q = 0;
-      for (let i = 0; i < d; i++) {
-        let s = data[o + i] - mean[i];
-        for (let k = 0; k < i; k++) s -= L[i * d + k] * z[k];
-        const zi = s / L[i * d + i];
-        z[i] = zi;
-        q += zi * zi;
-      }
-      out[r] = this.#norm - 0.5 * q;
-    }
+    // All rows' Mahalanobis terms in blocks (one triangular solve each), then in place.
+    const out = squaredMahalanobis(x.data, this.choleskyFactor, {
+      n: x.n,
+      d: this.d,
+      mean: this.mean,
+    });
+    for (let r = 0; r < x.n; r++) out[r] = this.#norm - 0.5 * out[r];
     return out;
   }
 

@@ -6,13 +6,14 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { linalgBackend } from "../linalg/backend.ts";
 import { symmetricEigen } from "../linalg/eigen.ts";
 import { covariance as sampleCovariance } from "../linalg/moments.ts";
 import { type RandomSource, type Rng, toRng } from "../random/rng.ts";
 import { type Samples, samples, type SamplesInput } from "../samples/samples.ts";
 import { type MatrixInput, toMatrix, toVector } from "./_common.ts";
 import { EmEngine } from "./_em_engine.ts";
-import type { PassStats } from "./_em_pass.ts";
+import { addMoments, type PassStats } from "./_em_pass.ts";
 import { kmeansPlusPlus } from "./_kmeans.ts";
 import { gaussian } from "./gaussian.ts";
 import { type GaussianMixtureDensity, mixtureFromComponents } from "./gaussian_mixture.ts";
@@ -49,8 +50,9 @@ export interface GaussianMixtureFitOptions {
   /** Start from these parameters instead of k-means++ (then `restarts` is 1). */
   init?: MixtureInit;
   /**
-   * Web Workers sharing the E-step (default: cores - 1 when n k d² >= 2e7, else 0). The
-   * result is the same up to the order of floating-point sums.
+   * Web Workers sharing the E-step (default: cores - 1 when n k d² >= 2e7, else 0; 0 from
+   * d = 32 on the native linear-algebra backend, whose kernels use every core). The result
+   * has the same bits whatever the number of workers.
    */
   workers?: number;
 }
@@ -136,7 +138,10 @@ export function fitGaussianMixture(
   const rng = toRng(options.seed ?? 0);
   const d = s.d;
   const cores = Math.min(8, navigator.hardwareConcurrency ?? 1);
-  const workers = options.workers ?? (n * k * d * d >= 2e7 ? cores - 1 : 0);
+  // From d = 32 on, the native BLAS kernels of a block run on their own threads: Web
+  // Workers on top would only compete with them for the cores.
+  const blasThreads = d >= 32 && linalgBackend().name === "native";
+  const workers = options.workers ?? (n * k * d * d >= 2e7 && !blasThreads ? cores - 1 : 0);
   if (!Number.isInteger(workers) || workers < 0) {
     throw new SaddleError("invalid-argument", `workers must be an integer >= 0, got ${workers}`, {
       parameter: "workers",
@@ -358,21 +363,9 @@ function mStep(
     for (let a = 0; a < d; a++) zero.mu[j * d + a] = st.nk[j] > 0 ? st.s1[j * d + a] / st.nk[j] : 0;
   }
   st.s1.fill(0);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < k; j++) {
-      const r = resp[i * k + j];
-      if (r === 0) continue;
-      for (let a = 0; a < d; a++) {
-        const da = data[i * d + a] - zero.mu[j * d + a];
-        st.s1[j * d + a] += r * da;
-        for (let b = a; b < d; b++) {
-          if (type === "full" || a === b) {
-            st.s2[j * d * d + a * d + b] += r * da * (data[i * d + b] - zero.mu[j * d + b]);
-          }
-        }
-      }
-    }
-  }
+  st.nk.fill(0);
+  // Scatter about the means as in EM: blocks of rows, one syrk per component and block.
+  addMoments({ data, n, d, k, mu: zero.mu, resp, full: type === "full", stats: st });
   const { params } = update({ p: zero, st, k, d, n, type, reg });
   return params;
 }

@@ -8,7 +8,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { cholesky, logDetCholesky } from "../linalg/cholesky.ts";
+import { cholesky, logDetCholesky, trsm } from "../linalg/cholesky.ts";
 import { covariance } from "../linalg/moments.ts";
 import { type RandomSource, toRng } from "../random/rng.ts";
 import { fromBuffer, type Samples, samples, type SamplesInput } from "../samples/samples.ts";
@@ -28,7 +28,6 @@ import {
   type KernelSumEvaluator,
   makeEvaluator,
   methodForJob,
-  whiten,
 } from "./_kde_eval.ts";
 import {
   evaluateInWorkers,
@@ -79,6 +78,11 @@ interface KdeParts {
   readonly syncMinPairs: number;
 }
 
+/** Every row `x` of `s` as `L⁻¹ x`: one triangular solve over the block (lib/linalg). */
+function whiten(s: Samples, L: Float64Array): Float64Array {
+  return trsm(L, s.data, { m: s.n, n: s.d, side: "right", transpose: true });
+}
+
 class Kde implements KdeDensity {
   readonly d: number;
   readonly points: Samples;
@@ -108,7 +112,7 @@ class Kde implements KdeDensity {
     this.method = o.method;
     this.#L = cholesky(o.bandwidth, d, { name: "bandwidth" });
     this.#centres = {
-      z: whiten(points.data, d, this.#L),
+      z: whiten(points, this.#L),
       d,
       lw: o.uniform ? null : o.weights.map(Math.log),
       method: o.method,
@@ -121,7 +125,7 @@ class Kde implements KdeDensity {
 
   logPdf(x: Samples): Float64Array {
     checkQuery(x, this.d, "kde");
-    const q = whiten(x.data, this.d, this.#L);
+    const q = whiten(x, this.#L);
     const c = this.#job(x.n);
     const threads = workerCount(c, x.n, this.#syncMinPairs);
     const out = threads > 1
@@ -158,7 +162,7 @@ class Kde implements KdeDensity {
     checkQuery(x, this.d, "kde");
     const c = this.#job(x.n);
     const workers = workerCount(c, x.n, options.minPairs ?? 4e6, options.workers);
-    const q = whiten(x.data, this.d, this.#L);
+    const q = whiten(x, this.#L);
     let out: Float64Array;
     if (workers < 2) out = this.#evaluateHere(q, x.n, c.method);
     else {

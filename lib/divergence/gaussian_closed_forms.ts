@@ -6,8 +6,8 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { cholesky, choleskySolve, logDetCholesky, solveLower } from "../linalg/cholesky.ts";
-import { sqrtSymmetric } from "../linalg/eigen.ts";
+import { cholesky, choleskySolve, logDetCholesky, solveLower, trsm } from "../linalg/cholesky.ts";
+import { sqrtSymmetric, traceSqrtProduct } from "../linalg/eigen.ts";
 import { toMatrix } from "../linalg/matrix_input.ts";
 import { logBase } from "../estimate/units.ts";
 
@@ -103,14 +103,10 @@ export function gaussianKl(
 ): number {
   const [A, B] = pair(a, b);
   const d = A.d;
-  // tr(Σ_b⁻¹ Σ_a) = ||L_b⁻¹ L_a||_F².
+  // tr(Σ_b⁻¹ Σ_a) = ||L_b⁻¹ L_a||_F²: one triangular solve with d right-hand sides.
+  const y = trsm(B.L, A.L, { m: d, n: d });
   let trace = 0;
-  const col = new Float64Array(d), y = new Float64Array(d);
-  for (let j = 0; j < d; j++) {
-    for (let i = 0; i < d; i++) col[i] = A.L[i * d + j];
-    solveLower(B.L, d, col, y);
-    for (let i = 0; i < d; i++) trace += y[i] * y[i];
-  }
+  for (let i = 0; i < d * d; i++) trace += y[i] * y[i];
   const diff = new Float64Array(d);
   for (let i = 0; i < d; i++) diff[i] = B.mean[i] - A.mean[i];
   const z = solveLower(B.L, d, diff);
@@ -190,37 +186,29 @@ export function gaussianHellinger(a: GaussianMoments, b: GaussianMoments): numbe
 export function gaussianFrechet(a: GaussianMoments, b: GaussianMoments): number {
   const [A, B] = pair(a, b, false);
   const d = A.d;
-  const ra = psdRoot(A.cov, d, "a.cov");
-  // b.cov must be PSD too: a Cholesky factorisation proves it cheaply in the usual definite
+  // b.cov must be PSD: a Cholesky factorisation proves it cheaply in the usual definite
   // case; only a singular b.cov pays for an eigendecomposition.
   try {
     cholesky(B.cov, d, { name: "b.cov" });
   } catch {
     psdRoot(B.cov, d, "b.cov");
   }
-  // M = Σ_a^{1/2} Σ_b Σ_a^{1/2}
-  const tmp = new Float64Array(d * d), m = new Float64Array(d * d);
-  for (let i = 0; i < d; i++) {
-    for (let j = 0; j < d; j++) {
-      let s = 0;
-      for (let k = 0; k < d; k++) s += ra[i * d + k] * B.cov[k * d + j];
-      tmp[i * d + j] = s;
-    }
+  // tr((Σ_a^½ Σ_b Σ_a^½)^½) from symmetric eigendecompositions (lib/linalg); a.cov is
+  // checked to be PSD there.
+  let cross: number;
+  try {
+    cross = traceSqrtProduct(A.cov, B.cov, d);
+  } catch (e) {
+    if (!(e instanceof SaddleError) || e.code !== "singular") throw e;
+    const name = e.location.parameter === "a" ? "a.cov" : "a.cov^½ b.cov a.cov^½";
+    throw notPsd(name, e);
   }
-  for (let i = 0; i < d; i++) {
-    for (let j = 0; j < d; j++) {
-      let s = 0;
-      for (let k = 0; k < d; k++) s += tmp[i * d + k] * ra[k * d + j];
-      m[i * d + j] = s;
-    }
-  }
-  const root = psdRoot(m, d, "a.cov^½ b.cov a.cov^½");
   let tr = 0, dist = 0;
   for (let i = 0; i < d; i++) {
-    tr += A.cov[i * d + i] + B.cov[i * d + i] - 2 * root[i * d + i];
+    tr += A.cov[i * d + i] + B.cov[i * d + i];
     dist += (A.mean[i] - B.mean[i]) ** 2;
   }
-  return Math.max(0, dist + tr);
+  return Math.max(0, dist + tr - 2 * cross);
 }
 
 /** The PSD square root, its error naming the covariance. */
@@ -229,13 +217,18 @@ function psdRoot(m: Float64Array, d: number, name: string): Float64Array {
     return sqrtSymmetric(m, d);
   } catch (e) {
     if (!(e instanceof SaddleError)) throw e;
-    throw new SaddleError(
-      e.code,
-      `${name} is not positive semi-definite (it has a clearly negative eigenvalue), so it ` +
-        "is not a covariance; check how it was computed",
-      { parameter: name },
-    );
+    throw notPsd(name, e);
   }
+}
+
+function notPsd(name: string, cause: SaddleError): SaddleError {
+  return new SaddleError(
+    cause.code,
+    `${name} is not positive semi-definite (it has a clearly negative eigenvalue), so it ` +
+      "is not a covariance; check how it was computed",
+    { parameter: name },
+    { cause },
+  );
 }
 
 /**

@@ -27,8 +27,27 @@ export interface SyrkArgs {
   d: number;
   outer: boolean;
   alpha: number;
-  /** `d x d` (or `n x n` with `outer`), overwritten. */
+  /** Scale of the incoming `c` (0: `c` is overwritten, its contents ignored). */
+  beta: number;
+  /**
+   * `d x d` (or `n x n` with `outer`), updated in place: `alpha AᵀA + beta C`. Only the
+   * lower triangle of the incoming `c` is read; both triangles are written.
+   */
   c: Float64Array;
+}
+
+/**
+ * Arguments of {@linkcode Kernels.trsm}: solve `op(L) X = B` (`right` false, `L` is
+ * `m x m`) or `X op(L) = B` (`right` true, `L` is `n x n`) for lower-triangular `L`, with
+ * `op(L)` = `Lᵀ` when `transposed`. `b` is row-major `m x n` and is overwritten by `X`.
+ */
+export interface TrsmArgs {
+  L: Float64Array;
+  b: Float64Array;
+  m: number;
+  n: number;
+  right: boolean;
+  transposed: boolean;
 }
 
 /** One backend's kernels. */
@@ -38,8 +57,8 @@ export interface Kernels {
   /** `C = alpha op(A) op(B) + beta C` (row-major, in place). */
   gemm(args: GemmArgs): void;
   /**
-   * Full symmetric `alpha AᵀA` (`d x d`, `outer` false) or `alpha AAᵀ` (`n x n`, `outer`
-   * true) of the row-major `n x d` matrix `a`, written into `c` (both triangles).
+   * Full symmetric `alpha AᵀA + beta C` (`d x d`, `outer` false) or `alpha AAᵀ + beta C`
+   * (`n x n`, `outer` true) of the row-major `n x d` matrix `a`, into `c` (both triangles).
    */
   syrk(args: SyrkArgs): void;
   /**
@@ -47,11 +66,8 @@ export interface Kernels {
    * zeroed on success). Returns 0, or `j + 1` when pivot `j` is not positive.
    */
   potrf(a: Float64Array, d: number): number;
-  /**
-   * Solve `L X = B` (`transposed` false) or `Lᵀ X = B` in place for `B` row-major
-   * `d x nrhs` and lower-triangular `L`.
-   */
-  trsm(L: Float64Array, d: number, b: Float64Array, nrhs: number, transposed: boolean): void;
+  /** Triangular solve with a block of right-hand sides, in place (see {@linkcode TrsmArgs}). */
+  trsm(args: TrsmArgs): void;
   /** `A⁻¹` (full, row-major) from the lower Cholesky factor `L` of `A`. */
   potri(L: Float64Array, d: number): Float64Array;
   /**

@@ -37,6 +37,32 @@ export interface SyrkOptions {
   outer?: boolean;
   /** Scale of the product (default 1). */
   alpha?: number;
+  /** Scale of the incoming `c` (default 0; ignored without `c`). */
+  beta?: number;
+  /**
+   * Symmetric output (`d x d`, or `n x n` with `outer`), updated in place to
+   * `alpha AᵀA + beta C` and returned; only its lower triangle is read, both are written.
+   * Default a new matrix.
+   */
+  c?: Float64Array;
+}
+
+/**
+ * Options of {@linkcode Linalg.trsm}: solve `op(L) X = B` (side "left", `L` is `m x m`) or
+ * `X op(L) = B` (side "right", `L` is `n x n`) for lower-triangular `L`; `B` and `X` are
+ * row-major `m x n`.
+ */
+export interface TrsmOptions {
+  /** Rows of `B`. */
+  m: number;
+  /** Columns of `B`. */
+  n: number;
+  /** "left" (default): `op(L) X = B`; "right": `X op(L) = B`. */
+  side?: "left" | "right";
+  /** Use `op(L) = Lᵀ` (default false). */
+  transpose?: boolean;
+  /** Output `m x n` (may be `b` itself, solved in place); default a new matrix. */
+  out?: Float64Array;
 }
 
 /** Options of {@linkcode Linalg.cholesky}. */
@@ -79,8 +105,10 @@ export interface Linalg {
   readonly name: "native" | "typescript";
   /** `C = alpha op(A) op(B) + beta C` (row-major). */
   gemm(a: ArrayLike<number>, b: ArrayLike<number>, options: GemmOptions): Float64Array;
-  /** `alpha AᵀA` (`d x d`) or `alpha AAᵀ` (`n x n`), both triangles filled. */
+  /** `alpha AᵀA + beta C` (`d x d`) or `alpha AAᵀ + beta C` (`n x n`), both triangles. */
   syrk(a: ArrayLike<number>, options: SyrkOptions): Float64Array;
+  /** Triangular solve with a block of right-hand sides: `op(L) X = B` or `X op(L) = B`. */
+  trsm(L: ArrayLike<number>, b: ArrayLike<number>, options: TrsmOptions): Float64Array;
   /** Lower Cholesky factor `L` with `A = L Lᵀ`. */
   cholesky(a: ArrayLike<number>, d: number, options?: CholeskyOptions): Float64Array;
   /** Solve `L y = b`, into `out`. */
@@ -216,12 +244,34 @@ export function makeLinalg(k: Kernels): Linalg {
     checkDim("syrk", "d", o.d);
     checkSize("syrk", "a", a, o.n * o.d, `${o.n} x ${o.d}`);
     checkFinite("syrk", "a", a, o.d);
-    const alpha = o.alpha ?? 1;
-    checkFinite("syrk", "alpha", [alpha], 1);
+    const alpha = o.alpha ?? 1, beta = o.c ? o.beta ?? 0 : 0;
+    checkFinite("syrk", "alpha and beta", [alpha, beta], 1);
     const size = o.outer ? o.n : o.d;
-    const c = new Float64Array(size * size);
-    k.syrk({ a: f64(a), n: o.n, d: o.d, outer: o.outer ?? false, alpha, c });
+    const c = o.c ?? new Float64Array(size * size);
+    checkSize("syrk", "c", c, size * size, `${size} x ${size}`);
+    if (beta !== 0) checkFinite("syrk", "c", c, size);
+    k.syrk({ a: f64(a), n: o.n, d: o.d, outer: o.outer ?? false, alpha, beta, c });
     return c;
+  }
+
+  function trsm(L: ArrayLike<number>, b: ArrayLike<number>, o: TrsmOptions): Float64Array {
+    const { m, n } = o;
+    checkDim("trsm", "m", m);
+    checkDim("trsm", "n", n);
+    const right = (o.side ?? "left") === "right";
+    if (!right && o.side !== undefined && o.side !== "left") {
+      throw new SaddleError("invalid-argument", `trsm: side must be "left" or "right"`, {
+        parameter: "side",
+      });
+    }
+    checkFactor("trsm", L, right ? n : m);
+    checkSize("trsm", "b", b, m * n, `${m} x ${n}`);
+    checkFinite("trsm", "b", b, n);
+    const out = o.out ?? new Float64Array(m * n);
+    checkSize("trsm", "out", out, m * n, `${m} x ${n}`);
+    if (out !== b) out.set(b);
+    k.trsm({ L: f64(L), b: out, m, n, right, transposed: o.transpose ?? false });
+    return out;
   }
 
   function cholesky(a: ArrayLike<number>, d: number, options: CholeskyOptions = {}) {
@@ -256,7 +306,7 @@ export function makeLinalg(k: Kernels): Linalg {
     checkSize(op, "out", out, d, `${d}`);
     checkFinite(op, "b", b, 1);
     if (out !== b) { for (let i = 0; i < d; i++) out[i] = b[i]; }
-    k.trsm(f64(L), d, out, 1, transposed);
+    k.trsm({ L: f64(L), b: out, m: d, n: 1, right: false, transposed });
     return out;
   }
 
@@ -280,7 +330,7 @@ export function makeLinalg(k: Kernels): Linalg {
 
   function choleskySolve(L: ArrayLike<number>, d: number, b: ArrayLike<number>) {
     const x = solve("choleskySolve", L, d, b, new Float64Array(d), false);
-    k.trsm(f64(L), d, x, 1, true);
+    k.trsm({ L: f64(L), b: x, m: d, n: 1, right: false, transposed: true });
     return x;
   }
 
@@ -369,7 +419,7 @@ export function makeLinalg(k: Kernels): Linalg {
       for (let i = 0; i < d; i++) v[i * d + j] *= q;
     }
     const out = new Float64Array(d * d);
-    k.syrk({ a: v, n: d, d, outer: true, alpha: 1, c: out });
+    k.syrk({ a: v, n: d, d, outer: true, alpha: 1, beta: 0, c: out });
     return out;
   }
 
@@ -443,6 +493,7 @@ export function makeLinalg(k: Kernels): Linalg {
     name: k.name,
     gemm,
     syrk,
+    trsm,
     cholesky,
     solveLower,
     solveLowerTransposed,

@@ -8,9 +8,16 @@
  *
  * @module
  */
-import { type GemmArgs, type Kernels, mirrorLower, type SyrkArgs } from "./_kernels.ts";
+import {
+  type GemmArgs,
+  type Kernels,
+  mirrorLower,
+  type SyrkArgs,
+  type TrsmArgs,
+} from "./_kernels.ts";
 
-const ROW_MAJOR = 101, NO_TRANS = 111, TRANS = 112, LOWER = 122, LEFT = 141, NON_UNIT = 131;
+const ROW_MAJOR = 101, NO_TRANS = 111, TRANS = 112, LOWER = 122, LEFT = 141, RIGHT = 142;
+const NON_UNIT = 131;
 
 const symbols = {
   cblas_dgemm: {
@@ -206,7 +213,7 @@ function makeKernels(s: Sym): Kernels {
     );
   }
 
-  function syrk({ a, n, d, outer, alpha, c }: SyrkArgs) {
+  function syrk({ a, n, d, outer, alpha, beta, c }: SyrkArgs) {
     const size = outer ? n : d;
     if (size === 0) return;
     s.cblas_dsyrk!(
@@ -218,7 +225,7 @@ function makeKernels(s: Sym): Kernels {
       alpha,
       a,
       Math.max(1, d),
-      0,
+      beta,
       c,
       size,
     );
@@ -236,21 +243,21 @@ function makeKernels(s: Sym): Kernels {
     return 0;
   }
 
-  function trsm(L: Float64Array, d: number, b: Float64Array, nrhs: number, transposed: boolean) {
-    if (d === 0 || nrhs === 0) return;
+  function trsm({ L, b, m, n, right, transposed }: TrsmArgs) {
+    if (m === 0 || n === 0) return;
     s.cblas_dtrsm!(
       ROW_MAJOR,
-      LEFT,
+      right ? RIGHT : LEFT,
       LOWER,
       transposed ? TRANS : NO_TRANS,
       NON_UNIT,
-      d,
-      nrhs,
+      m,
+      n,
       1,
       L,
-      d,
+      right ? n : m,
       b,
-      nrhs,
+      n,
     );
   }
 

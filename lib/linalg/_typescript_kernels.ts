@@ -6,7 +6,13 @@
  *
  * @module
  */
-import { type GemmArgs, type Kernels, mirrorLower, type SyrkArgs } from "./_kernels.ts";
+import {
+  type GemmArgs,
+  type Kernels,
+  mirrorLower,
+  type SyrkArgs,
+  type TrsmArgs,
+} from "./_kernels.ts";
 
 /** Depth and width of the gemm/syrk tiles (a 128 x 256 tile of B is 256 KiB). */
 const TILE_K = 128;
@@ -51,22 +57,31 @@ function gemm(g: GemmArgs): void {
   }
 }
 
-function syrk({ a, n, d, outer, alpha, c }: SyrkArgs): void {
+/** `beta C` on the lower triangle of the `size x size` matrix `c` (0: cleared). */
+function scaleLower(c: Float64Array, size: number, beta: number): void {
+  if (beta === 0) c.fill(0, 0, size * size);
+  else if (beta !== 1) {
+    for (let i = 0; i < size; i++) for (let j = 0; j <= i; j++) c[i * size + j] *= beta;
+  }
+}
+
+function syrk({ a, n, d, outer, alpha, beta, c }: SyrkArgs): void {
   if (outer) {
     // (A Aᵀ)_ij = row i · row j: contiguous dot products.
     for (let i = 0; i < n; i++) {
       for (let j = 0; j <= i; j++) {
         let s = 0;
         for (let p = 0; p < d; p++) s += a[i * d + p] * a[j * d + p];
-        c[i * n + j] = alpha * s;
-        c[j * n + i] = alpha * s;
+        const v = beta === 0 ? alpha * s : alpha * s + beta * c[i * n + j];
+        c[i * n + j] = v;
+        c[j * n + i] = v;
       }
     }
     return;
   }
   // (AᵀA) = Σ_rows outer(row, row), lower triangle, in square tiles of C (128 x 128,
   // 128 KiB: stays in cache while all the rows stream past), then mirrored.
-  c.fill(0, 0, d * d);
+  scaleLower(c, d, beta);
   const T = TILE_K;
   for (let y0 = 0; y0 < d; y0 += T) {
     const y1 = Math.min(d, y0 + T);
@@ -120,7 +135,33 @@ function potrf(a: Float64Array, d: number): number {
   return 0;
 }
 
-function trsm(L: Float64Array, d: number, b: Float64Array, nrhs: number, transposed: boolean) {
+function trsm({ L, b, m, n, right, transposed }: TrsmArgs): void {
+  if (right) {
+    // Row by row: X Lᵀ = B is forward substitution on each row (x = L⁻¹ b), X L = B back
+    // substitution with Lᵀ; L's rows are read contiguously.
+    const inv = new Float64Array(n);
+    for (let i = 0; i < n; i++) inv[i] = 1 / L[i * n + i];
+    for (let r = 0; r < m; r++) {
+      const o = r * n;
+      if (transposed) {
+        for (let i = 0; i < n; i++) {
+          let s = b[o + i];
+          const li = i * n;
+          for (let k = 0; k < i; k++) s -= L[li + k] * b[o + k];
+          b[o + i] = s * inv[i];
+        }
+      } else {
+        for (let i = n - 1; i >= 0; i--) {
+          const li = i * n;
+          const x = b[o + i] * inv[i];
+          b[o + i] = x;
+          for (let k = 0; k < i; k++) b[o + k] -= x * L[li + k];
+        }
+      }
+    }
+    return;
+  }
+  const d = m, nrhs = n;
   if (!transposed) {
     // Forward substitution, row by row: B_i -= L_ik B_k (k < i), then / L_ii.
     for (let i = 0; i < d; i++) {
@@ -154,8 +195,8 @@ function potri(L: Float64Array, d: number): Float64Array {
   // A⁻¹ = L⁻ᵀ L⁻¹: solve L Y = I, then Lᵀ X = Y.
   const x = new Float64Array(d * d);
   for (let i = 0; i < d; i++) x[i * d + i] = 1;
-  trsm(L, d, x, d, false);
-  trsm(L, d, x, d, true);
+  trsm({ L, b: x, m: d, n: d, right: false, transposed: false });
+  trsm({ L, b: x, m: d, n: d, right: false, transposed: true });
   for (let i = 0; i < d; i++) {
     for (let j = i + 1; j < d; j++) {
       const m = 0.5 * (x[i * d + j] + x[j * d + i]);

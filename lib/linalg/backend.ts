@@ -19,6 +19,7 @@ export type {
   SymmetricEigenValues,
   SyrkOptions,
   TraceSqrtProductOptions,
+  TrsmOptions,
 } from "./_linalg.ts";
 
 /** What {@linkcode linalgBackend} reports. */
@@ -56,7 +57,7 @@ function dispatch(native: Kernels, ts: Kernels): Kernels {
     gemm: (g: GemmArgs) => pick(g.m * g.n * g.k).gemm(g),
     syrk: (args) => pick(args.n * args.d * args.d).syrk(args),
     potrf: (a, d) => pick(d * d * d).potrf(a, d),
-    trsm: (L, d, b, nrhs, t) => pick(d * d * nrhs).trsm(L, d, b, nrhs, t),
+    trsm: (t) => pick(t.m * t.n * (t.right ? t.n : t.m)).trsm(t),
     potri: (L, d) => pick(d * d * d).potri(L, d),
     syev: (a, d, v) => pick(d * d * d).syev(a, d, v),
   };

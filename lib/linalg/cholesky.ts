@@ -5,9 +5,9 @@
  *
  * @module
  */
-import { activeLinalg, type CholeskyOptions } from "./backend.ts";
+import { activeLinalg, type CholeskyOptions, type TrsmOptions } from "./backend.ts";
 
-export type { CholeskyOptions } from "./backend.ts";
+export type { CholeskyOptions, TrsmOptions } from "./backend.ts";
 
 /**
  * The lower-triangular `L` with `A = L Lᵀ` (row-major, upper triangle zero). Throws a
@@ -116,4 +116,32 @@ export function choleskySolve(L: ArrayLike<number>, d: number, b: ArrayLike<numb
  */
 export function choleskyInverse(L: ArrayLike<number>, d: number): Float64Array {
   return activeLinalg().choleskyInverse(L, d);
+}
+
+/**
+ * Triangular solve with a block of right-hand sides (BLAS `trsm`), for lower-triangular `L`
+ * (its upper triangle is ignored): `op(L) X = B` with side "left" (`L` is `m x m`, each
+ * column of `B` a right-hand side) or `X op(L) = B` with side "right" (`L` is `n x n`),
+ * `op(L)` = `Lᵀ` with `transpose`. `B` and `X` are row-major `m x n`; `out` may be `b`
+ * itself. With side "right" and `transpose`, row `i` of `X` is `L⁻¹ bᵢ`: every row of an
+ * `m x n` data block whitened (or its Mahalanobis terms `|L⁻¹ (xᵢ - μ)|²`) in one call.
+ *
+ * @example
+ * ```ts
+ * import { cholesky, trsm } from "./cholesky.ts";
+ * import assert from "node:assert/strict";
+ * const L = cholesky(new Float64Array([4, 2, 2, 3]), 2); // [[2, 0], [1, √2]]
+ * // Two points as rows; each row of z is L⁻¹ x, so |z_i|² = xᵢᵀ A⁻¹ xᵢ.
+ * const z = trsm(L, [2, 1, 4, 2], { m: 2, n: 2, side: "right", transpose: true });
+ * assert.deepEqual(Array.from(z), [1, 0, 2, 0]);
+ * // Left side: L X = B with B 2 x 1 is one forward substitution.
+ * assert.deepEqual(Array.from(trsm(L, [4, 2], { m: 2, n: 1 })), [2, 0]);
+ * ```
+ */
+export function trsm(
+  L: ArrayLike<number>,
+  b: ArrayLike<number>,
+  options: TrsmOptions,
+): Float64Array {
+  return activeLinalg().trsm(L, b, options);
 }

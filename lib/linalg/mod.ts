@@ -14,3 +14,4 @@ export * from "./moments.ts";
 export * from "./matrix_input.ts";
 export * from "./general_eigen.ts";
 export * from "./lu_solve.ts";
+export * from "./mahalanobis.ts";

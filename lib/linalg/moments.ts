@@ -4,6 +4,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
+import { syrk } from "./products.ts";
 
 /** Options of {@linkcode covariance}. */
 export interface CovarianceOptions {
@@ -47,7 +48,8 @@ export function columnMeans(
 }
 
 /**
- * Sample covariance (`d x d`, row-major) of an `n x d` buffer, two-pass for accuracy.
+ * Sample covariance (`d x d`, row-major) of an `n x d` buffer, two-pass for accuracy: the
+ * mean first, then the centred rows in blocks through `syrk` (native BLAS when available).
  *
  * @example
  * ```ts
@@ -66,17 +68,20 @@ export function covariance(
   const w = options.weights;
   const mean = columnMeans(data, n, d, w);
   const cov = new Float64Array(d * d);
-  const dev = new Float64Array(d);
+  // Centred (weighted: × √w) rows in blocks, each added as one syrk: cov += Bᵀ B.
+  const B = Math.max(1, Math.min(256, n));
+  const block = new Float64Array(B * d);
   let sw = 0, sw2 = 0;
-  for (let i = 0; i < n; i++) {
-    const wi = w ? w[i] : 1;
-    sw += wi;
-    sw2 += wi * wi;
-    for (let j = 0; j < d; j++) dev[j] = data[i * d + j] - mean[j];
-    for (let a = 0; a < d; a++) {
-      const wa = wi * dev[a];
-      for (let b = a; b < d; b++) cov[a * d + b] += wa * dev[b];
+  for (let r0 = 0; r0 < n; r0 += B) {
+    const m = Math.min(B, n - r0);
+    for (let i = 0; i < m; i++) {
+      const wi = w ? w[r0 + i] : 1, h = w ? Math.sqrt(wi) : 1;
+      sw += wi;
+      sw2 += wi * wi;
+      const o = (r0 + i) * d, p = i * d;
+      for (let j = 0; j < d; j++) block[p + j] = h * (data[o + j] - mean[j]);
     }
+    syrk(block.subarray(0, m * d), { n: m, d, beta: 1, c: cov });
   }
   const ddof = options.ddof ?? 1;
   const denom = ddof === 0 ? sw : sw - sw2 / sw;
@@ -85,12 +90,6 @@ export function covariance(
       parameter: "data",
     });
   }
-  for (let a = 0; a < d; a++) {
-    for (let b = a; b < d; b++) {
-      const v = cov[a * d + b] / denom;
-      cov[a * d + b] = v;
-      cov[b * d + a] = v;
-    }
-  }
+  for (let a = 0; a < d * d; a++) cov[a] /= denom;
   return cov;
 }

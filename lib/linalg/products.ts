@@ -40,7 +40,9 @@ export function gemm(
 
 /**
  * The symmetric product `alpha · AᵀA` (`d x d`) of a row-major `n x d` matrix, or
- * `alpha · AAᵀ` (`n x n`) with `outer: true`; both triangles are filled.
+ * `alpha · AAᵀ` (`n x n`) with `outer: true`; both triangles are filled. With `c`, the
+ * product is accumulated into it: `c = alpha · AᵀA + beta · c` (only the lower triangle of
+ * the incoming `c` is read), e.g. a scatter matrix summed block by block.
  *
  * @example
  * ```ts
@@ -49,6 +51,10 @@ export function gemm(
  * const x = new Float64Array([1, 2, 3, 4, 5, 6]); // 3 x 2
  * assert.deepEqual(Array.from(syrk(x, { n: 3, d: 2 })), [35, 44, 44, 56]);
  * assert.equal(syrk(x, { n: 3, d: 2, outer: true }).length, 9);
+ * // Accumulate a second block: c = 1 · (rows 3..)ᵀ(rows 3..) + 1 · c.
+ * const c = syrk(x, { n: 3, d: 2 });
+ * syrk(new Float64Array([1, 1]), { n: 1, d: 2, beta: 1, c });
+ * assert.deepEqual(Array.from(c), [36, 45, 45, 57]);
  * ```
  */
 export function syrk(a: ArrayLike<number>, options: SyrkOptions): Float64Array {

@@ -12,7 +12,9 @@ async function choose(permissions: string[], env: Record<string, string>) {
   const out = await new Deno.Command(Deno.execPath(), {
     args: ["run", "--no-prompt", ...permissions, probe],
     cwd: root,
-    env: { ...env, NO_COLOR: "1" },
+    // Empty unless the case sets it: the child would otherwise inherit this run's
+    // SADDLEKIT_BLAS (CI reruns these tests with SADDLEKIT_BLAS=off).
+    env: { SADDLEKIT_BLAS: "", ...env, NO_COLOR: "1" },
     stdout: "piped",
     stderr: "piped",
   }).output();

@@ -105,6 +105,44 @@ const cases: Case[] = [
 
 const REF_D = 37, REF_N = 61;
 
+/** A well-conditioned random lower-triangular matrix (junk above the diagonal: ignored). */
+function randomLower(d: number, r: Rng): Float64Array {
+  const t = r.fillNormal(new Float64Array(d * d));
+  for (let i = 0; i < d; i++) {
+    for (let j = 0; j < i; j++) t[i * d + j] /= Math.sqrt(d);
+    t[i * d + i] = 1 + Math.abs(t[i * d + i]);
+  }
+  return t;
+}
+
+/** The symmetric `c` with its upper triangle garbled: syrk must read only the lower one. */
+function lowerOnly(c: Float64Array, d: number): Float64Array {
+  const out = Float64Array.from(c);
+  for (let i = 0; i < d; i++) for (let j = i + 1; j < d; j++) out[i * d + j] = 1e300;
+  return out;
+}
+
+function transposed(x: Float64Array, n: number, d: number): Float64Array {
+  const t = new Float64Array(n * d);
+  for (let i = 0; i < n; i++) for (let j = 0; j < d; j++) t[j * n + i] = x[i * d + j];
+  return t;
+}
+
+/** The four trsm variants: reference key, side, transpose, right-hand side, its shape. */
+function trsmVariants(
+  x: Float64Array,
+  xt: Float64Array,
+  n: number,
+  d: number,
+): [string, "left" | "right", boolean, Float64Array, number, number][] {
+  return [
+    ["trsm_right_t", "right", true, x, n, d],
+    ["trsm_right", "right", false, x, n, d],
+    ["trsm_left", "left", false, xt, d, n],
+    ["trsm_left_t", "left", true, xt, d, n],
+  ];
+}
+
 for (const c of cases) {
   Deno.test({
     name: `linalg backends (${
@@ -124,6 +162,7 @@ for (const c of cases) {
       );
       const cc = withSpectrum(c.spectrum(d).reverse(), r);
       const x = r.fillNormal(new Float64Array(n * d));
+      const tri = randomLower(d, r);
       const ref = await runReference<Record<string, number[] | number | null>>("linalg_check.py", {
         kernels: true,
         n,
@@ -132,12 +171,21 @@ for (const c of cases) {
         a,
         b,
         c: cc,
+        tri,
       });
       for (const k of backends) {
         const at = `${k.name}/${c.name}`;
         assertScaled(k.syrk(x, { n, d }), ref.syrk as number[], `${at} syrk`);
         assertScaled(k.syrk(x, { n, d, outer: true }), ref.gram as number[], `${at} gram`);
         assertScaled(k.gemm(a, b, { m: d, n: d, k: d }), ref.gemm as number[], `${at} gemm`);
+        const acc = k.syrk(x, { n, d, alpha: 2, beta: 0.5, c: lowerOnly(cc, d) });
+        assertScaled(acc, ref.syrk_acc as number[], `${at} syrk accumulate`);
+        // Triangular solves with a block: rows of x (right side) or its columns (left).
+        const xt = transposed(x, n, d);
+        for (const [key, side, transpose, rhs, rows, cols] of trsmVariants(x, xt, n, d)) {
+          const got = k.trsm(tri, rhs, { m: rows, n: cols, side, transpose });
+          assertScaled(got, ref[key] as number[], `${at} ${key}`);
+        }
         const e = k.symmetricEigen(a, d);
         assertScaled(e.values, ref.eigenvalues as number[], `${at} eigenvalues`);
         assertScaled(
@@ -199,6 +247,28 @@ Deno.test(`linalg backends agree with each other (native: ${nativeReason})`, {
     });
     const x = r.fillNormal(new Float64Array(300 * d));
     assertScaled(nat.syrk(x, { n: 300, d }), typescript.syrk(x, { n: 300, d }), `${c.name} syrk`);
+    const sa = { n: 300, d, alpha: -1.5, beta: 2 };
+    assertScaled(
+      nat.syrk(x, { ...sa, c: lowerOnly(a, d) }),
+      typescript.syrk(x, { ...sa, c: lowerOnly(a, d) }),
+      `${c.name} syrk accumulate`,
+    );
+    const tri = randomLower(d, r);
+    for (
+      const [key, side, transpose, rhs, rows, cols] of trsmVariants(
+        x,
+        transposed(x, 300, d),
+        300,
+        d,
+      )
+    ) {
+      const o = { m: rows, n: cols, side, transpose };
+      assertScaled(nat.trsm(tri, rhs, o), typescript.trsm(tri, rhs, o), `${c.name} ${key}`, 1e-11);
+      // In place: out = b.
+      const inPlace = Float64Array.from(rhs);
+      typescript.trsm(tri, inPlace, { ...o, out: inPlace });
+      assertScaled(inPlace, typescript.trsm(tri, rhs, o), `${c.name} ${key} in place`, 0);
+    }
     if (c.name !== "singular") {
       const spd = Float64Array.from(a, (v, i) => v + (i % (d + 1) === 0 ? 1e-3 : 0));
       const Lt = typescript.cholesky(spd, d), Ln = nat.cholesky(spd, d);
@@ -257,6 +327,14 @@ Deno.test("linalg: both backends throw the same SaddleErrors, naming the operati
     grab(() => k.gemm([1, 2], [1], { m: 1, n: 1, k: 2 }), "dimension-mismatch", "gemm");
     grab(() => k.syrk([1, 2, 3], { n: 2, d: 2 }), "dimension-mismatch", "syrk");
     grab(() => k.solveLower([1, 0, 1, 0], 2, [1, 1]), "singular", "solveLower");
+    grab(() => k.trsm([1, 0, 1, 0], [1, 1], { m: 1, n: 2, side: "right" }), "singular", "trsm");
+    grab(() => k.trsm([1, 0, 1, 1], [1, NaN], { m: 2, n: 1 }), "non-finite", "trsm");
+    grab(() => k.trsm([1, 0, 1, 1], [1, 1, 1], { m: 1, n: 2 }), "dimension-mismatch", "trsm");
+    grab(
+      () => k.syrk([1, 2], { n: 1, d: 2, c: new Float64Array(3) }),
+      "dimension-mismatch",
+      "syrk",
+    );
     grab(() => k.choleskyInverse([0, 0, 0, 1], 2), "singular", "choleskyInverse");
     grab(() => k.sqrtSymmetric([1, 0, 0, -1], 2), "singular", "sqrtSymmetric");
     grab(() => k.traceSqrtProduct([1, 0, 0, 1], [1, 0, 0, -1], 2), "singular", "traceSqrtProduct");

@@ -7,13 +7,16 @@ stdout: {"cholesky", "logdet", "solve", "inverse", "eigenvalues", "sqrtm", "cov"
 With {"kernels": true, "x": [...n*d], "n": n, "d": d, "a": [...d*d symmetric],
 "b": [...d*d PSD], "c": [...d*d PSD]} instead: {"syrk" (X^T X), "gram" (X X^T),
 "gemm" (A B), "gemm_tn" (X^T X via matmul of the transpose), "eigenvalues", "vectors"
-(numpy.linalg.eigh), "trace_sqrt" (tr sqrtm(sqrtm(B) C sqrtm(B)), scipy), "cholesky" (of B)}.
+(numpy.linalg.eigh), "trace_sqrt" (tr sqrtm(sqrtm(B) C sqrtm(B)), scipy), "cholesky" (of B),
+"syrk_acc" (2 X^T X + 0.5 C)}; with "tri": [...d*d lower triangular] also the four
+scipy.linalg.solve_triangular solves "trsm_right_t" (Y T^T = X), "trsm_right" (Y T = X),
+"trsm_left" (T Y = X^T), "trsm_left_t" (T^T Y = X^T), all row-major.
 """
 import json
 import sys
 
 import numpy as np
-from scipy.linalg import sqrtm
+from scipy.linalg import solve_triangular, sqrtm
 
 
 def kernels(req):
@@ -31,7 +34,14 @@ def kernels(req):
         "eigenvalues": w.tolist(),
         "vectors": V.ravel().tolist(),
         "trace_sqrt": float(np.trace(np.real(sqrtm(rb @ C @ rb)))),
+        "syrk_acc": (2 * (X.T @ X) + 0.5 * C).ravel().tolist(),
     }
+    if "tri" in req:
+        T = np.tril(np.asarray(req["tri"], dtype=float).reshape(d, d))
+        out["trsm_right_t"] = solve_triangular(T, X.T, lower=True).T.ravel().tolist()
+        out["trsm_right"] = solve_triangular(T, X.T, lower=True, trans="T").T.ravel().tolist()
+        out["trsm_left"] = solve_triangular(T, X.T, lower=True).ravel().tolist()
+        out["trsm_left_t"] = solve_triangular(T, X.T, lower=True, trans="T").ravel().tolist()
     try:
         out["cholesky"] = np.linalg.cholesky(B).ravel().tolist()
     except np.linalg.LinAlgError:
