@@ -20,20 +20,17 @@ export function fft(re: Float64Array, im: Float64Array, sign: 1 | -1 = -1): void
       im[j] = t;
     }
   }
+  // Twiddles from one table per length, each entry computed directly (not by recurrence)
+  // to keep rounding at ~1 ulp.
+  const [cosT, sinT] = twiddles(n);
   for (let len = 2; len <= n; len <<= 1) {
-    const ang = (sign * 2 * Math.PI) / len;
-    const half = len >> 1;
-    // Twiddles computed directly (not by recurrence) to keep rounding at ~1 ulp.
-    const wr = new Float64Array(half), wi = new Float64Array(half);
-    for (let k = 0; k < half; k++) {
-      wr[k] = Math.cos(ang * k);
-      wi[k] = Math.sin(ang * k);
-    }
+    const half = len >> 1, stride = n / len;
     for (let i = 0; i < n; i += len) {
       for (let k = 0; k < half; k++) {
+        const wr = cosT[k * stride], wi = sign * sinT[k * stride];
         const a = i + k, b = a + half;
-        const xr = re[b] * wr[k] - im[b] * wi[k];
-        const xi = re[b] * wi[k] + im[b] * wr[k];
+        const xr = re[b] * wr - im[b] * wi;
+        const xi = re[b] * wi + im[b] * wr;
         re[b] = re[a] - xr;
         im[b] = im[a] - xi;
         re[a] += xr;
@@ -41,6 +38,25 @@ export function fft(re: Float64Array, im: Float64Array, sign: 1 | -1 = -1): void
       }
     }
   }
+}
+
+const TABLES = new Map<number, [Float64Array, Float64Array]>();
+
+/** cos and sin of 2πj/n for j < n/2 (cached per n). */
+function twiddles(n: number): [Float64Array, Float64Array] {
+  let t = TABLES.get(n);
+  if (!t) {
+    const half = Math.max(1, n >> 1);
+    const c = new Float64Array(half), s = new Float64Array(half);
+    for (let j = 0; j < half; j++) {
+      c[j] = Math.cos((2 * Math.PI * j) / n);
+      s[j] = Math.sin((2 * Math.PI * j) / n);
+    }
+    t = [c, s];
+    if (TABLES.size > 32) TABLES.clear();
+    TABLES.set(n, t);
+  }
+  return t;
 }
 
 /** Smallest power of two >= n. */

@@ -14,6 +14,7 @@ export * from "./uniform_box.ts";
 export * from "./bandwidth.ts";
 export * from "./kde.ts";
 export * from "./kde_grid.ts";
+export * from "./binned_kde.ts";
 export * from "./gaussian_mixture_fit.ts";
 export * from "./gaussian_mixture_select.ts";
 export * from "./histogram.ts";

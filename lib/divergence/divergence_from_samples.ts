@@ -11,19 +11,14 @@ import { withHidden } from "../estimate/hidden.ts";
 import { escapeHtml, htmlTable, textTable } from "../display/table.ts";
 import type { Samples, SamplesInput } from "../samples/samples.ts";
 import {
-  fitBoth,
-  integrationText,
-  prepareRefit,
-  refitEstimate,
-  refitIntegration,
-  refitNotes,
+  refitBootstrap,
+  type RefitBootstrapOptions,
   type RefitOptions,
-  runReplicates,
-  sameIntegration,
 } from "./refit_bootstrap.ts";
+import { makeEstimate } from "../estimate/estimate.ts";
 
 export type { RefitOptions };
-import { fDivergence, type FDivergenceOptions } from "./f_divergence.ts";
+import type { FDivergenceOptions } from "./f_divergence.ts";
 import {
   type FDivergenceName,
   type FDivergenceSpec,
@@ -36,7 +31,11 @@ import {
  * keep replicates cheap: grid with 500 cells (1-D) or 48 x 48 (2-D), Monte Carlo with 2000
  * draws a density for d > 2.
  */
-export interface SampleDivergenceOptions extends FDivergenceOptions, RefitOptions {}
+export interface SampleDivergenceOptions
+  extends
+    FDivergenceOptions,
+    RefitOptions,
+    Pick<RefitBootstrapOptions, "interval" | "onProgress" | "workers"> {}
 
 /**
  * A divergence from samples: the plug-in value between the two fits, with the standard
@@ -62,16 +61,19 @@ export type { RefitDetail };
  * interval that includes the sampling error of the data, not only the numerical error.
  *
  * A density is fitted to each side with `fit` (default: Gaussian KDE, Scott's rule) and the
- * divergence between the fits computed with {@linkcode fDivergence} (the plug-in value).
- * Then, `replicates` times, each sample set is resampled with replacement on its own, both
- * densities are refitted and the divergence recomputed with fresh integration draws; the
- * standard deviation of the replicates is the se and their percentiles the interval
- * (method "bootstrap-percentile (refit)"). The notes say how much of the variance is
- * numerical, how many replicates failed, and give the bootstrap bias estimate: plug-in
- * divergences between fitted densities are biased upward on small samples, and the
- * interval does not correct for that. The replicates (finite ones, in draw order) are the
- * non-enumerable `replicates`, so `plotBootstrap` accepts the result. Any name of
- * {@linkcode F_DIVERGENCES} or "alpha" (with `alpha`) works; `base: 2` gives bits.
+ * divergence between the fits computed (the plug-in value). Then, `replicates` times, each
+ * sample set is resampled with replacement on its own, both densities are refitted and the
+ * divergence recomputed; the standard deviation of the replicates is the se and the
+ * interval comes from them by `interval`. This is a view of {@linkcode refitBootstrap}
+ * with one quantity (same seed, same numbers): to get several divergences from one set of
+ * fits, call that instead. With the default KDE in 1-D or 2-D, the divergences with a
+ * bounded integrand (JS, total variation, squared Hellinger, GAN) take the binned route (a
+ * replicate is a reweighted binning); the others are refitted point by point and
+ * integrated with {@linkcode fDivergence}'s machinery. The notes say how much of the
+ * variance is numerical, how many replicates failed, and give the bootstrap bias estimate
+ * with its direction as measured on these data. The replicates (finite ones, in draw
+ * order) are the non-enumerable `replicates`, so `plotBootstrap` accepts the result. Any
+ * name of {@linkcode F_DIVERGENCES} or "alpha" (with `alpha`) works; `base: 2` gives bits.
  *
  * References: Efron 1979, Bootstrap methods: another look at the jackknife (Ann. Stat.);
  * Efron & Tibshirani 1993, An Introduction to the Bootstrap (ch. 6, 10, 13); Nowozin,
@@ -97,31 +99,16 @@ export function divergenceFromSamples(
   name: FDivergenceName | FDivergenceSpec,
   options: SampleDivergenceOptions = {},
 ): SampleDivergence {
-  const setup = prepareRefit(real, fake, options);
   const spec = fDivergenceSpec(name, options);
-  const { fit: _fit, replicates: _b, ...rest } = options;
-  const integ = refitIntegration(setup.real.d, { ...rest, seed: setup.seed, level: setup.level });
-  const [p, q] = fitBoth(setup, setup.real, setup.fake);
-  // The plug-in at fDivergence's own defaults (finer grid or more draws) unless the options
-  // fix them; the replicates' coarser integration gives the numerical share of the variance.
-  const plugIn = fDivergence(p, q, spec, { ...rest, seed: setup.seed, level: setup.level });
-  const coarse = sameIntegration(rest) ? plugIn : fDivergence(p, q, spec, integ);
-  const run = runReplicates(setup, 1, (pb, qb, r) => [
-    fDivergence(pb, qb, spec, { ...integ, seed: r }).value,
-  ]);
-  const est = refitEstimate(setup, run.columns[0], {
-    what: spec.label,
-    plugIn,
-    replicateError: coarse,
-    failed: run.failed,
-    bias: true,
-    plugInNotes: true,
-    notes: [spec.label, ...refitNotes(setup, run, spec.label, integrationText(integ))],
-    ...(plugIn.unit ? { unit: plugIn.unit } : {}),
-  });
+  const all = refitBootstrap(real, fake, { ...options, quantities: [spec] });
+  const est = all.estimates[spec.name];
+  const plugIn = all.plugIn[spec.name];
+  const notes = [spec.label, ...est.notes, ...all.notes];
+  for (const n of plugIn.notes) if (!notes.includes(n)) notes.push(`plug-in: ${n}`);
+  const withNotes = makeEstimate({ ...est, notes });
   const out = withHidden(
-    est,
-    { plugIn, failed: run.failed },
+    withNotes,
+    { plugIn, failed: all.failed, replicates: est.replicates },
     () => divergenceBundle(out, spec.label),
   ) as SampleDivergence;
   return out;

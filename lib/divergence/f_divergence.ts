@@ -24,6 +24,7 @@ import {
   type FDivergenceName,
   type FDivergenceSpec,
   fDivergenceSpec,
+  LOGARITHMIC_DIVERGENCES,
   mixtureWeightOf,
 } from "./f_divergence_table.ts";
 
@@ -35,7 +36,7 @@ export interface FDivergenceOptions extends IntegrationOptions {
   base?: number;
 }
 
-const LOGARITHMIC = new Set(["kl", "reverse-kl", "jensen-shannon", "gan"]);
+const LOGARITHMIC = LOGARITHMIC_DIVERGENCES;
 
 /**
  * The f-divergence `D_f(P || Q) = ∫ q f(p/q)` between two densities, as an Estimate.

@@ -297,6 +297,24 @@ function tableBundle(table: Readonly<Record<string, FDivergenceSpec>>): MimeBund
   };
 }
 
+/**
+ * The divergences measured in units of information (nats, or bits with `base: 2`): the
+ * ones whose generator is a logarithm.
+ *
+ * @example
+ * ```ts
+ * import { LOGARITHMIC_DIVERGENCES } from "./f_divergence_table.ts";
+ * import assert from "node:assert/strict";
+ * assert.ok(LOGARITHMIC_DIVERGENCES.has("kl") && !LOGARITHMIC_DIVERGENCES.has("pearson"));
+ * ```
+ */
+export const LOGARITHMIC_DIVERGENCES: ReadonlySet<string> = new Set([
+  "kl",
+  "reverse-kl",
+  "jensen-shannon",
+  "gan",
+]);
+
 /** Names of the fixed table rows, plus "alpha" for the α family. */
 export type FDivergenceName = keyof typeof F_DIVERGENCES | "alpha";
 

@@ -10,6 +10,15 @@ export * from "./gaussian_closed_forms.ts";
 export * from "./discrete.ts";
 export * from "./integration_options.ts";
 export * from "./divergence_from_samples.ts";
+export * from "./refit_quantities.ts";
+export {
+  DEFAULT_REFIT_INTERVAL,
+  type RefitBootstrap,
+  refitBootstrap,
+  type RefitBootstrapOptions,
+} from "./refit_bootstrap.ts";
+export type { BootstrapIntervalMethod } from "../estimate/bootstrap_interval.ts";
+export type { MixtureWeight } from "./integration.ts";
 export * from "./knn_estimators.ts";
 export * from "./wasserstein.ts";
 export * from "./energy_distance.ts";

@@ -6,6 +6,7 @@
 export * from "./types.ts";
 export * from "./estimate.ts";
 export * from "./bootstrap.ts";
+export * from "./bootstrap_interval.ts";
 export * from "./format.ts";
 export * from "./two_sample.ts";
 export * from "./wilson.ts";

@@ -5,7 +5,8 @@
  * @module
  */
 import type { Density } from "../density/types.ts";
-import { logSigmoid, sigmoid } from "../math/log_space.ts";
+import { logSigmoid } from "../math/log_space.ts";
+import { DECOMPOSITION_WEIGHTS } from "../divergence/refit_quantities.ts";
 import {
   combineMeans,
   drawBoth,
@@ -50,16 +51,9 @@ export interface OptimumDecomposition {
   readonly notes: readonly string[];
 }
 
-/** `σ(r) ln σ(r)`, 0 at r = -Infinity (where σ → 0 faster than ln σ → -∞). */
-function xLogSigmoid(r: number): number {
-  return r === -Infinity ? 0 : sigmoid(r) * logSigmoid(r);
-}
-
-// Integrands per unit of the mixture m, as functions of r = ln p_data - ln p_g:
-// p ln D* / m + q ln(1 - D*) / m, and p ln(p/m) / m, q ln(q/m) / m.
-const W_VALUE = (r: number) => 2 * (xLogSigmoid(r) + xLogSigmoid(-r));
-const W_KL_REAL = (r: number) => 2 * (sigmoid(r) * Math.LN2 + xLogSigmoid(r));
-const W_KL_FAKE = (r: number) => 2 * (sigmoid(-r) * Math.LN2 + xLogSigmoid(-r));
+const W_VALUE = DECOMPOSITION_WEIGHTS.value;
+const W_KL_REAL = DECOMPOSITION_WEIGHTS.klRealMix;
+const W_KL_FAKE = DECOMPOSITION_WEIGHTS.klFakeMix;
 
 /**
  * The value of the game at the optimal discriminator split into its terms (Goodfellow et
@@ -162,7 +156,29 @@ export function optimumDecomposition(
     method,
     notes,
   };
-  return withDisplay(out, decompositionBundle);
+  return optimumDecompositionOf(out);
+}
+
+/**
+ * An {@linkcode OptimumDecomposition} from its terms, with its notebook display (for
+ * decompositions computed elsewhere, such as the plug-in of a refit bootstrap).
+ *
+ * @example
+ * ```ts
+ * import { optimumDecompositionOf } from "./optimum_decomposition.ts";
+ * import { exact } from "../estimate/estimate.ts";
+ * import assert from "node:assert/strict";
+ * const t = exact(0);
+ * const d = optimumDecompositionOf({
+ *   value: exact(-Math.log(4)), jsd: t, klRealMix: t, klFakeMix: t,
+ *   constant: exact(-Math.log(4)), residual: t, method: "grid", notes: [],
+ * });
+ * assert.equal(d.jsd.value, 0);
+ * assert.ok(Symbol.for("Jupyter.display") in d);
+ * ```
+ */
+export function optimumDecompositionOf(terms: OptimumDecomposition): OptimumDecomposition {
+  return withDisplay({ ...terms }, decompositionBundle);
 }
 
 function decompositionBundle(d: OptimumDecomposition): Record<string, string> {
