@@ -27,3 +27,4 @@ export * from "./lib/metrics/mod.ts";
 export * from "./lib/game/mod.ts";
 export * from "./lib/plot/mod.ts";
 export * from "./lib/files/mod.ts";
+export * from "./lib/training/mod.ts";

@@ -178,4 +178,17 @@ if (import.meta.main) {
     seed: SEED,
   });
   await write("generator_comparison", sk.plotGeneratorComparison(comparison));
+
+  // The demo training run: its diagnosis, and the first 300 real rows against each checkpoint.
+  const runDir = new URL("../data/demo/training/", import.meta.url).pathname;
+  const diagnosis = sk.diagnoseTraining(await sk.readTrainingLog(`${runDir}train_log.csv`));
+  await write("loss_curves", sk.plotLossCurves(diagnosis));
+  await write("discriminator_outputs", sk.plotDiscriminatorOutputs(diagnosis));
+  await write("periodogram", sk.plotPeriodogram(diagnosis));
+  const head = sk.takeRows(real, Uint32Array.from({ length: 300 }, (_, i) => i));
+  const series = await sk.checkpointSeries(head, `${runDir}checkpoints`, {
+    replicates: 20,
+    seed: SEED,
+  });
+  await write("checkpoint_metrics", sk.plotCheckpointMetrics(series));
 }

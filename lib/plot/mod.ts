@@ -44,6 +44,10 @@
  * | per-mode coverage bars | {@linkcode plotModeCoverage} |
  * | metrics of several generators with intervals and verdicts | {@linkcode plotGeneratorComparison} |
  * | k-NN precision/recall on a 2-D projection | {@linkcode plotPrecisionRecall} |
+ * | training losses, equilibrium lines, flagged spans shaded | {@linkcode plotLossCurves} |
+ * | D(real) and D(fake) converging to 1/2 | {@linkcode plotDiscriminatorOutputs} |
+ * | checkpoint metrics over steps with interval bands | {@linkcode plotCheckpointMetrics} |
+ * | the periodogram behind an oscillation flag | {@linkcode plotPeriodogram} |
  *
  * New figures are small additions: {@linkcode composeFigure} takes panels of Plot layers
  * and a legend; {@linkcode axisLabel}, {@linkcode lineStyle}, {@linkcode referenceY} and
@@ -144,3 +148,19 @@ export {
   plotGeneratorComparison,
 } from "./generator_comparison_plot.ts";
 export { plotPrecisionRecall, type PrecisionRecallPlotOptions } from "./precision_recall_plot.ts";
+export type { TrainingPlotOptions } from "./_training.ts";
+export { plotLossCurves } from "./loss_curves_plot.ts";
+export { plotDiscriminatorOutputs } from "./discriminator_outputs_plot.ts";
+export {
+  type CheckpointMetricsPlotOptions,
+  plotCheckpointMetrics,
+} from "./checkpoint_metrics_plot.ts";
+export { type PeriodogramPlotOptions, plotPeriodogram } from "./periodogram_plot.ts";
+export type {
+  SeriesDiagnosis,
+  TrainingDiagnosis,
+  TrainingFlag,
+  TrainingFlagKind,
+} from "../training/diagnose_training.ts";
+export type { TrainingLog } from "../training/training_log.ts";
+export type { CheckpointSeries } from "../training/checkpoint_series.ts";

@@ -7,9 +7,11 @@ import { assertStandalone } from "./_svg.ts";
 
 const FIGURES = [
   "bootstrap",
+  "checkpoint_metrics",
   "decomposition",
   "densities_1d",
   "discriminator_map",
+  "discriminator_outputs",
   "divergences",
   "eigenvalues",
   "fit_1d",
@@ -17,8 +19,10 @@ const FIGURES = [
   "generator_comparison",
   "generator_objectives",
   "gradient_field",
+  "loss_curves",
   "mode_coverage",
   "objective",
+  "periodogram",
   "phase_snapshots",
   "precision_recall",
   "reliability",
