@@ -28,3 +28,4 @@ export * from "./lib/game/mod.ts";
 export * from "./lib/plot/mod.ts";
 export * from "./lib/files/mod.ts";
 export * from "./lib/training/mod.ts";
+export * from "./lib/report/mod.ts";

@@ -32,7 +32,8 @@ export interface PngOptions {
 
 /**
  * A figure held as standalone SVG markup: namespaced, a white background, fonts given as a
- * family list, no external references. Shows as `image/svg+xml` in a Jupyter cell.
+ * family list, no external references. Shows as `image/svg+xml` in a Jupyter cell, with a
+ * `text/html` `<img>` of the same SVG for exporters that strip inline SVG (nbconvert).
  *
  * @example
  * ```ts
@@ -77,12 +78,44 @@ export class Figure {
     this.title = info.title ?? "";
     this.marks = info.marks ?? [];
     this.layers = info.layers ?? [];
-    withDisplay(this, (f) => ({ "image/svg+xml": f.toSVG(), "text/plain": f.toString() }));
+    withDisplay(this, (f) => ({
+      "image/svg+xml": f.toSVG(),
+      "text/html": f.toImgTag(),
+      "text/plain": f.toString(),
+    }));
   }
 
   /** The standalone SVG markup. */
   toSVG(): string {
     return this.#svg;
+  }
+
+  /**
+   * The figure as an HTML `<img>` whose source is the SVG as a base64 data URI. A
+   * notebook cell shows it beside `image/svg+xml`: nbconvert's HTML export picks
+   * `text/html` first and strips the inside of inline SVG, so this form keeps figures in
+   * exported notebooks.
+   *
+   * @example
+   * ```ts
+   * import { Figure } from "./figure.ts";
+   * import assert from "node:assert/strict";
+   * const f = new Figure('<svg xmlns="http://www.w3.org/2000/svg" width="20" height="10"><text>µ</text></svg>', { width: 20, height: 10, title: "t" });
+   * const src = f.toImgTag().match(/src="data:image\/svg\+xml;base64,([^"]+)"/)![1];
+   * const bytes = Uint8Array.from(atob(src), (c) => c.charCodeAt(0));
+   * assert.equal(new TextDecoder().decode(bytes), f.toSVG());
+   * ```
+   */
+  toImgTag(): string {
+    const bytes = new TextEncoder().encode(this.#svg);
+    let binary = "";
+    for (let i = 0; i < bytes.length; i += 0x8000) {
+      binary += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
+    }
+    const alt = (this.title || "figure").replace(/&/g, "&amp;").replace(/"/g, "&quot;")
+      .replace(/</g, "&lt;");
+    return `<img src="data:image/svg+xml;base64,${btoa(binary)}" width="${this.width}" ` +
+      `height="${this.height}" alt="${alt}" style="max-width:100%;height:auto">`;
   }
 
   /**

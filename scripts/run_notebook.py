@@ -1,5 +1,7 @@
 """Execute one Jupyter notebook under a kernel with nbclient and report what it produced.
 
+Used by `deno task notebook` (scripts/notebook.ts) and by the notebook tests.
+
 Input (JSON on stdin):
   {"notebook": path, "timeout": seconds per cell (default 60), "kernel": name (default
    from the notebook's kernelspec), "out_dir": folder for the executed copy (default: a
