@@ -181,7 +181,11 @@ if (import.meta.main) {
 
   // The demo training run: its diagnosis, and the first 300 real rows against each checkpoint.
   const runDir = new URL("../data/demo/training/", import.meta.url).pathname;
-  const diagnosis = sk.diagnoseTraining(await sk.readTrainingLog(`${runDir}train_log.csv`));
+  const diagnosis = sk.diagnoseTraining(
+    await sk.readTrainingLog(`${runDir}train_log.csv`, {
+      source: "data/demo/training/train_log.csv",
+    }),
+  );
   await write("loss_curves", sk.plotLossCurves(diagnosis));
   await write("discriminator_outputs", sk.plotDiscriminatorOutputs(diagnosis));
   await write("periodogram", sk.plotPeriodogram(diagnosis));
