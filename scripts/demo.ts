@@ -5,7 +5,8 @@
  * Usage: deno task demo [--data DIR] [--out DIR] [--seed N] [--force] [--quiet]
  *
  * `--data DIR` reads turbine_real.csv, turbine_fake.npy, disc_scores.json and (when there)
- * claims.json from DIR instead of data/demo/. Every argument is checked before any work.
+ * claims.json, training/train_log.csv and training/checkpoints/ from DIR instead of
+ * data/demo/. Every argument is checked before any work.
  * Exits 0 when the report was written (the demo's claims include one that fails on
  * purpose), 2 on bad arguments.
  *
@@ -66,6 +67,10 @@ export async function demoCommand(args: readonly string[]): Promise<number> {
       "--scores",
       `${data}/disc_scores.json`,
       ...((await has("claims.json")) ? ["--claims", `${data}/claims.json`] : []),
+      ...((await has("training/train_log.csv")) ? ["--log", `${data}/training/train_log.csv`] : []),
+      ...((await has("training/checkpoints"))
+        ? ["--checkpoints", `${data}/training/checkpoints`]
+        : []),
       "--out",
       values.out ?? "out/demo",
       ...(values.seed ? ["--seed", values.seed] : []),

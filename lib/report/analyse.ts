@@ -23,6 +23,9 @@ import { densitySection } from "./section_density.ts";
 import { discriminatorSection } from "./section_discriminator.ts";
 import { gaussianSection } from "./section_gaussian.ts";
 import { inputsSection } from "./section_inputs.ts";
+import { metricsSection } from "./section_metrics.ts";
+import { checkpointsSection, trainingSection } from "./section_training.ts";
+import { comparisonSection } from "./section_comparison.ts";
 import type { Json } from "./json.ts";
 import type {
   PreparedAnalysis,
@@ -42,7 +45,11 @@ export const DEFAULT_SECTIONS: readonly ReportSection[] = [
   inputsSection,
   densitySection,
   gaussianSection,
+  metricsSection,
+  comparisonSection,
   discriminatorSection,
+  trainingSection,
+  checkpointsSection,
 ];
 
 /** Options of {@linkcode prepareAnalysis}: the inputs, the claims and the overrides. */
@@ -132,6 +139,8 @@ export async function runAnalysis(prep: PreparedAnalysis): Promise<Report> {
   const timings: { step: string; seconds: number; within?: string }[] = [];
   const estimates: Record<string, Record<string, Json>> = {};
   const estimateObjects: Record<string, Record<string, Estimate>> = {};
+  const tests: Record<string, Json> = {};
+  const data: Record<string, Json> = { comparison: null, training: null, checkpoints: null };
   const methods: Record<string, Json> = {};
   const figures: ReportFigure[] = [];
   const status: Json[] = [];
@@ -145,6 +154,8 @@ export async function runAnalysis(prep: PreparedAnalysis): Promise<Report> {
   for (const { section, applies } of prep.sections) {
     const record: SectionRecord = {
       estimates: {},
+      data: {},
+      tests: {},
       methods: {},
       figures: [],
       html: [],
@@ -177,7 +188,17 @@ export async function runAnalysis(prep: PreparedAnalysis): Promise<Report> {
           estimateObjects[group][k] = e;
         }
       }
+      for (const [k, t] of Object.entries(record.tests)) {
+        tests[k] = {
+          method: t.method,
+          statistic: estimateJson(t.statistic),
+          pValue: t.pValue,
+          permutations: t.permutations,
+          notes: [...t.notes],
+        };
+      }
       Object.assign(methods, record.methods);
+      Object.assign(data, record.data);
       for (const f of record.figures) {
         if (figures.some((g) => g.name === f.name)) {
           throw new Error(`two sections draw a figure named "${f.name}"`);
@@ -203,6 +224,13 @@ export async function runAnalysis(prep: PreparedAnalysis): Promise<Report> {
           n: { real: inputs.scores.real.length, fake: inputs.scores.fake.length },
         }
         : null,
+      generators: inputs.generators
+        ? inputs.generators.map((g) => ({ name: g.name, ...(sideJson(g) as Record<string, Json>) }))
+        : null,
+      log: inputs.log ? { path: inputs.log.path, sha256: inputs.log.sha256 } : null,
+      checkpoints: inputs.checkpoints
+        ? { path: inputs.checkpoints.path, files: inputs.checkpoints.files.length }
+        : null,
       claims: prep.claimsFile
         ? { path: prep.claimsFile.path, sha256: prep.claimsFile.sha256 }
         : null,
@@ -212,6 +240,8 @@ export async function runAnalysis(prep: PreparedAnalysis): Promise<Report> {
     sections: status,
     methods,
     estimates,
+    tests,
+    ...data,
   };
   const t0 = performance.now();
   const claims = checkClaims(base, prep.claims);

@@ -171,6 +171,8 @@ interface Interval {
 }
 
 function intervalOf(e: Json | undefined): Interval | undefined {
+  // A plain number (a p-value) is exact: its interval is the value itself.
+  if (typeof e === "number") return { value: e, lo: e, hi: e, level: 1, n: 0, se: 0 };
   if (!e || typeof e !== "object" || Array.isArray(e)) return undefined;
   const o = e as Record<string, Json>;
   const value = asNumber(o.value);

@@ -13,13 +13,19 @@ import { checkOutputFolder, writeReport } from "./write.ts";
 export const USAGE = `usage: deno task analyse --real FILE --fake FILE [options]
 
   --real FILE            samples of the data (.csv .tsv .txt .json .npy .npz)
-  --fake FILE            samples of the generator, same columns
+  --fake FILE            samples of the generator, same columns; repeat with names to
+                         compare generators: --fake A=FILE --fake B=FILE (the first is
+                         the one the other sections analyse)
   --columns a,b          keep these columns (names or 0-based indices) of both files
   --scores FILE          a trained discriminator's outputs: CSV/JSON with a "side" column
                          (real/fake) and a score column, or JSON {"real": [...], "fake": [...]}
   --d-real FILE          ... or its outputs on the real rows, one column
   --d-fake FILE          ... and on the generated rows
   --score-scale S        prob or logit (default: prob when every output is in [0, 1])
+  --log FILE             a training log (CSV/TSV/JSON lines: step, losses, D outputs)
+  --checkpoints DIR      generated samples saved during training, one file a checkpoint
+                         named with its step (step_001000.csv), same columns as --real
+  --checkpoint-replicates N  bootstrap replicates of each checkpoint's metrics (default 20)
   --claims FILE          statements to settle (JSON; see README, "Claims")
   --seed N               seed of every random step (default 2026)
   --replicates N         refit-bootstrap replicates of the density route (default 100)
@@ -38,6 +44,9 @@ const VALUE_FLAGS = [
   "d-fake",
   "score-scale",
   "claims",
+  "log",
+  "checkpoints",
+  "checkpoint-replicates",
   "seed",
   "replicates",
   "out",
@@ -50,6 +59,8 @@ export interface CliArgs {
   values: Record<string, string | undefined>;
   /** Switches given. */
   flags: Set<string>;
+  /** Every value of each `repeatable` flag, in order. */
+  lists: Record<string, string[]>;
 }
 
 /**
@@ -70,8 +81,10 @@ export function parseCli(
   args: readonly string[],
   known: readonly string[] = VALUE_FLAGS,
   switches: readonly string[] = BOOL_FLAGS,
+  repeatable: readonly string[] = ["fake"],
 ): CliArgs {
   const values: Record<string, string> = {};
+  const lists: Record<string, string[]> = {};
   const flags = new Set<string>();
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -107,14 +120,15 @@ export function parseCli(
         parameter: `--${name}`,
       });
     }
-    if (name in values) {
+    (lists[name] ??= []).push(value);
+    if (name in values && !repeatable.includes(name)) {
       throw new SaddleError("invalid-argument", `--${name} given twice`, {
         parameter: `--${name}`,
       });
     }
-    values[name] = value;
+    values[name] ??= value;
   }
-  return { values, flags };
+  return { values, flags, lists };
 }
 
 function wholeNumber(v: string | undefined, flag: string): number | undefined {
@@ -125,6 +139,25 @@ function wholeNumber(v: string | undefined, flag: string): number | undefined {
     });
   }
   return Number(v);
+}
+
+/**
+ * The generated sets of repeated `--fake` values: `NAME=FILE` names one (NAME of letters,
+ * digits, `_`, `-`), a plain `FILE` is named G1, G2, ... by position.
+ *
+ * @example
+ * ```ts
+ * import { generatorList } from "./command.ts";
+ * import assert from "node:assert/strict";
+ * assert.deepEqual(generatorList(["A=a.npy", "b.csv"]), [
+ *   { name: "A", path: "a.npy" }, { name: "G2", path: "b.csv" }]);
+ * ```
+ */
+export function generatorList(values: readonly string[]): { name: string; path: string }[] {
+  return values.map((v, i) => {
+    const m = /^([A-Za-z0-9][A-Za-z0-9_-]*)=(.+)$/s.exec(v);
+    return m ? { name: m[1], path: m[2] } : { name: `G${i + 1}`, path: v };
+  });
 }
 
 /** Options of {@linkcode analyseCommand} beyond the arguments. */
@@ -155,7 +188,7 @@ export async function analyseCommand(args: readonly string[], io: CommandIo = {}
   let quiet = false, showProgress = false;
   const encoder = new TextEncoder();
   try {
-    const { values: v, flags } = parseCli(args);
+    const { values: v, flags, lists } = parseCli(args);
     if (flags.has("help")) {
       print(USAGE);
       return 0;
@@ -187,9 +220,15 @@ export async function analyseCommand(args: readonly string[], io: CommandIo = {}
       : undefined;
     const seed = wholeNumber(v.seed, "--seed");
     const replicates = wholeNumber(v.replicates, "--replicates");
+    const checkpointReplicates = wholeNumber(
+      v["checkpoint-replicates"],
+      "--checkpoint-replicates",
+    );
+    const generators = generatorList(lists.fake ?? []);
     const options: AnalyseOptions = {
       real: v.real,
-      fake: v.fake,
+      fake: generators[0].path,
+      ...(generators.length > 1 ? { generators } : {}),
       ...(v.columns
         ? {
           columns: v.columns.split(",").map((c) => (/^\d+$/.test(c.trim()) ? Number(c) : c.trim())),
@@ -200,6 +239,9 @@ export async function analyseCommand(args: readonly string[], io: CommandIo = {}
       ...(v["d-fake"] ? { dFake: v["d-fake"] } : {}),
       ...(v["score-scale"] ? { scoreScale: v["score-scale"] as "prob" | "logit" } : {}),
       ...(v.claims ? { claims: v.claims } : {}),
+      ...(v.log ? { log: v.log } : {}),
+      ...(v.checkpoints ? { checkpoints: v.checkpoints } : {}),
+      ...(checkpointReplicates !== undefined ? { checkpointReplicates } : {}),
       ...(seed !== undefined ? { seed } : {}),
       ...(replicates !== undefined ? { replicates } : {}),
       ...(onProgress ? { onProgress } : {}),

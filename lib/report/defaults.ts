@@ -17,6 +17,10 @@ export interface PlanOptions {
   replicates?: number;
   /** Rows a side the density route uses at most (default 5000; a seeded subsample above). */
   maxDensityRows?: number;
+  /** Bootstrap replicates of each checkpoint's metrics (default 20). */
+  checkpointReplicates?: number;
+  /** Half-sample replicates of the comparison of several generators (default 50). */
+  comparisonReplicates?: number;
 }
 
 /** How the density-based quantities are computed, or why they are not. */
@@ -58,8 +62,29 @@ export interface ReportPlan {
   readonly gaussianMaxD: number;
   /** Monte Carlo draws a density for d > 2 (each replicate). */
   readonly monteCarloDraws: number;
+  /** Rows a side the pairwise feature-space metrics and tests use at most. */
+  readonly metricRows: number;
+  /** Bootstrap replicates of the Fréchet distance (each a covariance and an eigensolve). */
+  readonly frechetReplicates: number;
+  /** Random relabellings of the MMD permutation test. */
+  readonly permutations: number;
+  /** Bootstrap replicates of each checkpoint's metrics (`--checkpoints`). */
+  readonly checkpointReplicates: number;
+  /** Half-sample replicates of the comparison of several generators. */
+  readonly comparisonReplicates: number;
+  /** Neighbours k of the k-NN metrics: precision/recall and density/coverage. */
+  readonly metricK: { readonly precisionRecall: number; readonly densityCoverage: number };
   /** Why each choice was made. */
   readonly reasons: readonly string[];
+}
+
+function atLeastTen(v: number, what: string, parameter: string): number {
+  if (!Number.isInteger(v) || v < 10) {
+    throw new SaddleError("invalid-argument", `${what} must be a whole number >= 10, got ${v}`, {
+      parameter,
+    });
+  }
+  return v;
 }
 
 /** Largest d with a KDE route. */
@@ -74,7 +99,11 @@ export const DENSITY_MAX_D = 10;
  *   dimension), and none when a side has fewer than max(20, 5·(d+1)) rows;
  * - integration on a grid for d ≤ 2, Monte Carlo (2000 draws a density) above;
  * - 100 refit replicates, on at most 5000 rows a side (a seeded subsample above);
- * - Gaussian closed forms for d ≤ 64 when each side has more than d + 1 rows.
+ * - Gaussian closed forms for d ≤ 64 when each side has more than d + 1 rows;
+ * - feature-space metrics for every d: the pairwise ones (MMD, energy, sliced Wasserstein,
+ *   k-NN precision/recall with k = 3 and density/coverage with k = 5, the two-sample tests
+ *   with 200 permutations) on a seeded subsample of at most 2000 rows a side, the Fréchet
+ *   distance on all rows with 100 bootstrap replicates for d ≤ 64, 30 for d ≤ 512, 10 above.
  *
  * @example
  * ```ts
@@ -170,6 +199,33 @@ export function choosePlan(
     `Gaussian fits compared in closed form for d ≤ ${gaussianMaxD} (each side needs more than ` +
       "d + 1 rows); 200 bootstrap replicates",
   );
+  const metricRows = 2000;
+  const frechetReplicates = d <= 64 ? 100 : d <= 512 ? 30 : 10;
+  reasons.push(
+    `feature-space metrics for every d: pairwise ones (MMD, energy, sliced Wasserstein, k-NN ` +
+      `precision/recall with k = 3, density/coverage with k = 5, tests) on at most ${metricRows} ` +
+      `rows a side; the Fréchet distance on all rows with ${frechetReplicates} bootstrap ` +
+      `replicates (fewer for larger d: each costs a d × d covariance and an eigensolve); ` +
+      "200 permutations for the MMD test",
+  );
+  const checkpointReplicates = atLeastTen(
+    options.checkpointReplicates ?? 20,
+    "checkpoint replicates",
+    "--checkpoint-replicates",
+  );
+  const comparisonReplicates = atLeastTen(
+    options.comparisonReplicates ?? 50,
+    "comparison replicates",
+    "comparisonReplicates",
+  );
+  reasons.push(
+    `several generators (when given): compared on the same seeded subsample of at most ` +
+      `${metricRows} rows a side with ${comparisonReplicates} half-sample replicates`,
+  );
+  reasons.push(
+    `checkpoints (when given): ${checkpointReplicates} bootstrap replicates each (a series of ` +
+      "many checkpoints multiplies the cost; the trend matters more than each interval)",
+  );
   reasons.push(`seed ${seed}; each section draws from the seed "${seed}:<section id>"`);
   return {
     seed,
@@ -182,6 +238,12 @@ export function choosePlan(
     sampleReplicates: 200,
     gaussianMaxD,
     monteCarloDraws: 2000,
+    metricRows,
+    frechetReplicates,
+    permutations: 200,
+    metricK: { precisionRecall: 3, densityCoverage: 5 },
+    checkpointReplicates,
+    comparisonReplicates,
     reasons,
   };
 }

@@ -12,6 +12,7 @@ import { readSamples, sampleFormatOf } from "../samples/mod.ts";
 import type { Samples } from "../samples/mod.ts";
 import { selectColumns } from "../samples/mod.ts";
 import type { OutputScale } from "../discriminator/mod.ts";
+import { readTrainingLog, type TrainingLog } from "../training/mod.ts";
 
 /** One sample file as read. */
 export interface SideInput {
@@ -39,6 +40,44 @@ export interface ScoresInput {
   readonly scaleReason: string;
 }
 
+/** A training log as read (`--log`). */
+export interface LogInput {
+  /** The path as given. */
+  readonly path: string;
+  /** SHA-256 of the file's bytes. */
+  readonly sha256: string;
+  /** The log, its columns mapped (guesses said in its notes). */
+  readonly log: TrainingLog;
+}
+
+/** One checkpoint file of `--checkpoints DIR`, checked up front. */
+export interface CheckpointFile {
+  /** Training step (the last number in the file name). */
+  readonly step: number;
+  /** The file. */
+  readonly path: string;
+  /** SHA-256 of its bytes. */
+  readonly sha256: string;
+  /** Its rows (after `columns`). */
+  readonly samples: Samples;
+}
+
+/** The checkpoint folder (`--checkpoints`). */
+export interface CheckpointsInput {
+  /** The folder as given. */
+  readonly path: string;
+  /** Its checkpoint files by increasing step. */
+  readonly files: readonly CheckpointFile[];
+  /** Files of the folder that were not taken (no step number or no samples extension). */
+  readonly skipped: readonly string[];
+}
+
+/** One named generated set of several (`--fake A=path --fake B=path`). */
+export interface GeneratorInput extends SideInput {
+  /** Its name (letters, digits, `_`, `-`). */
+  readonly name: string;
+}
+
 /** Everything the sections read. */
 export interface ReportInputs {
   /** Samples of the data distribution. */
@@ -47,14 +86,20 @@ export interface ReportInputs {
   readonly fake: SideInput;
   /** Discriminator outputs, when given. */
   readonly scores?: ScoresInput;
+  /** Every generated set by name, the first being `fake`, when several are given. */
+  readonly generators?: readonly GeneratorInput[];
+  /** The training log, when given. */
+  readonly log?: LogInput;
+  /** The checkpoint series' files, when given. */
+  readonly checkpoints?: CheckpointsInput;
 }
 
 /** Where the inputs are and how to read them. */
 export interface ReadInputsOptions {
   /** Real samples: any file {@linkcode readSamples} reads. */
   real: string;
-  /** Generated samples. */
-  fake: string;
+  /** Generated samples (default the first of `generators`). */
+  fake?: string;
   /** Columns to keep, by name or 0-based index (both files). */
   columns?: readonly (string | number)[];
   /**
@@ -69,6 +114,18 @@ export interface ReadInputsOptions {
   dFake?: string;
   /** Scale of the outputs (default: probabilities when every value is in [0, 1]). */
   scoreScale?: OutputScale;
+  /**
+   * Several generated sets to compare, by name (the first is the one the other sections
+   * analyse; `fake` may then be omitted).
+   */
+  generators?: readonly { readonly name: string; readonly path: string }[];
+  /** A training log (CSV/TSV/JSON lines; columns guessed from common spellings). */
+  log?: string;
+  /**
+   * A folder of generated samples saved during training, one file a checkpoint, named with
+   * its step (`step_001000.csv`); the same columns as the real file.
+   */
+  checkpoints?: string;
 }
 
 /**
@@ -189,29 +246,171 @@ function pickColumns(s: Samples, columns: readonly (string | number)[], file: st
  * ```
  */
 export async function readReportInputs(options: ReadInputsOptions): Promise<ReportInputs> {
+  const fakePath = options.fake ?? options.generators?.[0]?.path;
+  if (fakePath === undefined) {
+    throw new SaddleError("invalid-argument", "give the generated samples (--fake FILE)", {
+      parameter: "--fake",
+    });
+  }
   const real = await readSide(options.real, "--real");
-  const fake = await readSide(options.fake, "--fake");
+  const fake = await readSide(fakePath, "--fake");
   let r = real.s, f = fake.s;
   if (!f.columns && r.columns && r.d === f.d) f = { ...f, columns: r.columns };
   if (!r.columns && f.columns && r.d === f.d) r = { ...r, columns: f.columns };
   if (options.columns?.length) {
     r = pickColumns(r, options.columns, options.real);
-    f = pickColumns(f, options.columns, options.fake);
+    f = pickColumns(f, options.columns, fakePath);
   }
   if (r.d !== f.d) {
     throw new SaddleError(
       "dimension-mismatch",
-      `the real samples have d = ${r.d} columns but the generated samples in ${options.fake} ` +
+      `the real samples have d = ${r.d} columns but the generated samples in ${fakePath} ` +
         `have d = ${f.d}; give files of the same dimension, or pick the shared ones with --columns`,
       { file: options.real },
     );
   }
   const scores = await readScoreInputs(options, r.n, f.n);
+  const generators = options.generators && options.generators.length > 1
+    ? await readGenerators(options.generators, fakePath, { s: f, sha256: fake.sha256 }, r, options)
+    : undefined;
+  const log = options.log ? await readLogInput(options.log) : undefined;
+  const checkpoints = options.checkpoints
+    ? await readCheckpointsInput(options.checkpoints, r, options.columns)
+    : undefined;
   return {
     real: { path: options.real, samples: r, sha256: real.sha256 },
-    fake: { path: options.fake, samples: f, sha256: fake.sha256 },
+    fake: { path: fakePath, samples: f, sha256: fake.sha256 },
+    ...(generators ? { generators } : {}),
     ...(scores ? { scores } : {}),
+    ...(log ? { log } : {}),
+    ...(checkpoints ? { checkpoints } : {}),
   };
+}
+
+const GENERATOR_NAME = /^[A-Za-z0-9][A-Za-z0-9_-]*$/;
+
+async function readGenerators(
+  list: readonly { readonly name: string; readonly path: string }[],
+  firstPath: string,
+  first: { s: Samples; sha256: string },
+  real: Samples,
+  options: ReadInputsOptions,
+): Promise<GeneratorInput[]> {
+  const out: GeneratorInput[] = [];
+  for (const [i, g] of list.entries()) {
+    if (!GENERATOR_NAME.test(g.name) || g.name.includes("_vs_")) {
+      throw new SaddleError(
+        "invalid-argument",
+        `--fake: generator name "${g.name}" must be letters, digits, _ and - (not "_vs_"), ` +
+          "starting with a letter or digit",
+        { parameter: "--fake", file: g.path },
+      );
+    }
+    if (out.some((o) => o.name === g.name)) {
+      throw new SaddleError("invalid-argument", `--fake: two generators named "${g.name}"`, {
+        parameter: "--fake",
+        file: g.path,
+      });
+    }
+    let side = i === 0 && g.path === firstPath ? first : await readSide(g.path, "--fake");
+    let s = side.s;
+    if (!s.columns && real.columns && s.d === real.d) s = { ...s, columns: real.columns };
+    if (i > 0 && options.columns?.length) s = pickColumns(s, options.columns, g.path);
+    if (s.d !== real.d) {
+      throw new SaddleError(
+        "dimension-mismatch",
+        `--fake ${g.name}: d = ${s.d} columns but the real samples have d = ${real.d}; give ` +
+          "files of the same dimension, or pick the shared ones with --columns",
+        { file: g.path },
+      );
+    }
+    side = { s, sha256: side.sha256 };
+    out.push({ name: g.name, path: g.path, samples: side.s, sha256: side.sha256 });
+  }
+  return out;
+}
+
+async function readLogInput(path: string): Promise<LogInput> {
+  const bytes = await readInputFile(path, "--log");
+  let log: TrainingLog;
+  try {
+    log = await readTrainingLog(path);
+  } catch (e) {
+    if (e instanceof SaddleError) {
+      throw new SaddleError(e.code, `--log: ${e.message}`, { file: path });
+    }
+    throw new SaddleError("parse", `--log: ${String(e)}`, { file: path });
+  }
+  return { path, sha256: await sha256Hex(bytes), log };
+}
+
+const STEP_IN_NAME = /(\d+)(?!.*\d)/;
+
+async function readCheckpointsInput(
+  dir: string,
+  real: Samples,
+  columns: readonly (string | number)[] | undefined,
+): Promise<CheckpointsInput> {
+  const names: string[] = [];
+  try {
+    if (!(await Deno.stat(dir)).isDirectory) {
+      throw new SaddleError("invalid-argument", "--checkpoints is a file; give the folder", {
+        file: dir,
+      });
+    }
+    for await (const e of Deno.readDir(dir)) if (e.isFile) names.push(e.name);
+  } catch (e) {
+    if (e instanceof SaddleError) throw e;
+    throw new SaddleError(
+      "not-found",
+      `--checkpoints: cannot read the folder (${(e as Error).message.split("\n")[0]}); check ` +
+        "the path and read access",
+      { file: dir },
+    );
+  }
+  names.sort();
+  const files: CheckpointFile[] = [];
+  const skipped: string[] = [];
+  for (const name of names) {
+    const m = STEP_IN_NAME.exec(name.replace(/\.[^.]*$/, ""));
+    if (!m || sampleFormatOf(name) === undefined) {
+      skipped.push(name);
+      continue;
+    }
+    const path = `${dir}/${name}`;
+    const side = await readSide(path, "--checkpoints");
+    let s = side.s;
+    if (!s.columns && real.columns && s.d === real.d) s = { ...s, columns: real.columns };
+    if (columns?.length) s = pickColumns(s, columns, path);
+    if (s.d !== real.d) {
+      throw new SaddleError(
+        "dimension-mismatch",
+        `--checkpoints: this checkpoint has d = ${s.d} columns but the real samples have ` +
+          `d = ${real.d}; save checkpoints with the real file's columns, or pick them with --columns`,
+        { file: path },
+      );
+    }
+    files.push({ step: Number(m[1]), path, sha256: side.sha256, samples: s });
+  }
+  if (files.length === 0) {
+    throw new SaddleError(
+      "empty",
+      "--checkpoints: no checkpoint files; name each with its step (step_001200.npy)",
+      { file: dir },
+    );
+  }
+  files.sort((a, b) => a.step - b.step);
+  for (let i = 1; i < files.length; i++) {
+    if (files[i].step === files[i - 1].step) {
+      throw new SaddleError(
+        "invalid-argument",
+        `--checkpoints: ${files[i - 1].path} and ${files[i].path} have the same step ` +
+          `${files[i].step}; keep one`,
+        { file: files[i].path },
+      );
+    }
+  }
+  return { path: dir, files, skipped };
 }
 
 async function readScoreInputs(

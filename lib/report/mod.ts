@@ -13,7 +13,8 @@
  * ```ts
  * import { DEFAULT_SECTIONS } from "./mod.ts";
  * import assert from "node:assert/strict";
- * assert.deepEqual(DEFAULT_SECTIONS.map((s) => s.id), ["inputs", "density", "gaussian", "discriminator"]);
+ * assert.deepEqual(DEFAULT_SECTIONS.map((s) => s.id), ["inputs", "density", "gaussian", "metrics", "comparison", "discriminator",
+ *   "training", "checkpoints"]);
  * ```
  *
  * @module
@@ -28,7 +29,10 @@ export * from "./schema.ts";
 export * from "./section_inputs.ts";
 export * from "./section_density.ts";
 export * from "./section_gaussian.ts";
+export * from "./section_metrics.ts";
 export * from "./section_discriminator.ts";
+export * from "./section_comparison.ts";
+export * from "./section_training.ts";
 export * from "./html.ts";
 export * from "./analyse.ts";
 export * from "./write.ts";

@@ -9,20 +9,19 @@ import { fitGaussianMixture } from "../density/mod.ts";
 import { selectGaussianMixture } from "../density/mod.ts";
 import { fitKde } from "../density/mod.ts";
 import type { Density } from "../density/mod.ts";
-import { divergenceFromSamples } from "../divergence/mod.ts";
+import { refitBootstrap } from "../divergence/mod.ts";
 import { F_DIVERGENCES } from "../divergence/mod.ts";
-import { exact } from "../estimate/mod.ts";
+import { exact, makeEstimate } from "../estimate/mod.ts";
 import type { Estimate } from "../estimate/mod.ts";
 import { escapeHtml, htmlTable } from "../display/mod.ts";
 import { plotDecomposition } from "../plot/mod.ts";
 import { plotDensities } from "../plot/mod.ts";
 import { plotDiscriminatorMap } from "../plot/mod.ts";
 import { plotDivergences } from "../plot/mod.ts";
-import { rng } from "../random/mod.ts";
 import type { Samples } from "../samples/mod.ts";
-import { takeRows } from "../samples/mod.ts";
 import { decompositionFromSamples } from "../value/mod.ts";
 import { biasCorrected, formatShort as fmt } from "./estimate_json.ts";
+import { subsample } from "./_subsample.ts";
 import type { ReportContext, ReportSection, SectionRecord } from "./types.ts";
 
 /** The f-divergences the report estimates besides the JSD of the decomposition. */
@@ -49,12 +48,6 @@ const TERM_RANGE: Record<(typeof TERMS)[number], readonly [number, number]> = {
 
 /** Shared-map key of the two density fits (for the discriminator's gap to D*). */
 export const DENSITY_FITS = "density.fits";
-
-function subsample(s: Samples, rows: number, seed: string): Samples {
-  if (s.n <= rows) return s;
-  const idx = rng(seed).permutation(s.n).subarray(0, rows);
-  return takeRows(s, Uint32Array.from(idx).sort());
-}
 
 /**
  * The density section: the decomposition at the optimum (Goodfellow et al. 2014, Thm. 1)
@@ -152,15 +145,21 @@ function runDensity(ctx: ReportContext, out: SectionRecord): void {
   }
   const divergences: Record<string, Estimate> = {};
   const divReplicates = Math.max(10, Math.round(plan.replicates / 2));
-  REPORT_DIVERGENCES.forEach((name, i) => {
-    ctx.onProgress(`density: ${name}`, 0.4 + 0.6 * i / REPORT_DIVERGENCES.length);
-    const e = divergenceFromSamples(real, fake, name, {
-      fit,
-      replicates: divReplicates,
-      seed: `${seed}:${name}`,
-      level: plan.level,
-      ...(route.integration === "monte-carlo" ? { n: plan.monteCarloDraws } : {}),
-    });
+  // One refit bootstrap for the four divergences: each replicate refits both densities once
+  // and evaluates every divergence on the same pair of fits.
+  ctx.onProgress("density: f-divergences", 0.4);
+  const all = refitBootstrap(real, fake, {
+    fit,
+    quantities: REPORT_DIVERGENCES,
+    replicates: divReplicates,
+    seed: `${seed}:divergences`,
+    level: plan.level,
+    onProgress: (done, total) => ctx.onProgress("density: f-divergences", 0.4 + 0.6 * done / total),
+    ...(route.integration === "monte-carlo" ? { n: plan.monteCarloDraws } : {}),
+  });
+  for (const name of REPORT_DIVERGENCES) {
+    const e = all.estimates[name];
+    const notes = [...e.notes, ...all.notes.filter((n) => !e.notes.includes(n))];
     divergences[name] = Number.isFinite(e.value)
       ? biasCorrected({
         value: e.value,
@@ -169,11 +168,11 @@ function runDensity(ctx: ReportContext, out: SectionRecord): void {
         level: plan.level,
         range: F_DIVERGENCES[name].range,
         ...(e.unit ? { unit: e.unit } : {}),
-        notes: e.notes,
+        notes,
       })
-      : e;
-    lap(name);
-  });
+      : makeEstimate({ ...e, notes });
+  }
+  lap("f-divergences");
   ctx.onProgress("density: figures", 1);
   methods.divergenceReplicates = divReplicates;
   methods.interval = "basic bootstrap interval of the refit replicates, bias-corrected " +

@@ -29,6 +29,20 @@ export interface ReportContext {
   readonly onProgress: ReportProgress;
 }
 
+/** A two-sample test as the report keeps it. */
+export interface ReportTest {
+  /** The test's name. */
+  readonly method: string;
+  /** The statistic with its interval. */
+  readonly statistic: Estimate;
+  /** p-value of "both sides come from one distribution". */
+  readonly pValue: number;
+  /** Random relabellings behind the p-value (0 for an exact one). */
+  readonly permutations: number;
+  /** Caveats and settings. */
+  readonly notes: readonly string[];
+}
+
 /** One figure of a section: saved as `<name>.svg` and `<name>.png`, inlined in the HTML. */
 export interface ReportFigure {
   /** File name without extension, unique in the report (letters, digits, `_`). */
@@ -43,6 +57,13 @@ export interface ReportFigure {
 export interface SectionRecord {
   /** Estimates under `estimates.<group>.<key>` of summary.json. */
   readonly estimates: Record<string, Record<string, Estimate>>;
+  /**
+   * Results that are not estimates, under top-level keys of summary.json (`training`,
+   * `checkpoints`); each key is null in the summary when its section did not run.
+   */
+  readonly data: Record<string, Json>;
+  /** Two-sample tests under `tests.<name>` of summary.json. */
+  readonly tests: Record<string, ReportTest>;
   /** Methods and parameters under `methods.<section id>`. */
   readonly methods: Record<string, Json>;
   /** Figures, in display order. */
