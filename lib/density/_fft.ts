@@ -65,3 +65,32 @@ export function nextPow2(n: number): number {
   while (p < n) p <<= 1;
   return p;
 }
+
+/** In-place N-d (1 or 2) FFT over a row-major padded grid. */
+export function fftNd(
+  re: Float64Array,
+  im: Float64Array,
+  M: readonly number[],
+  sign: 1 | -1,
+): void {
+  if (M.length === 1) {
+    fft(re, im, sign);
+    return;
+  }
+  const [m0, m1] = M;
+  for (let i = 0; i < m0; i++) {
+    fft(re.subarray(i * m1, (i + 1) * m1), im.subarray(i * m1, (i + 1) * m1), sign);
+  }
+  const cr = new Float64Array(m0), ci = new Float64Array(m0);
+  for (let j = 0; j < m1; j++) {
+    for (let i = 0; i < m0; i++) {
+      cr[i] = re[i * m1 + j];
+      ci[i] = im[i * m1 + j];
+    }
+    fft(cr, ci, sign);
+    for (let i = 0; i < m0; i++) {
+      re[i * m1 + j] = cr[i];
+      im[i * m1 + j] = ci[i];
+    }
+  }
+}

@@ -6,7 +6,7 @@
  * @module
  */
 import { SaddleError } from "../errors/saddle_error.ts";
-import { fft, nextPow2 } from "./_fft.ts";
+import { fftNd, nextPow2 } from "./_fft.ts";
 import { LOG_CUT } from "./_kde_eval.ts";
 
 /** Nodes `lower[c] + i * step[c]`, `i = 0 .. size[c] - 1`, per axis. */
@@ -231,29 +231,5 @@ function binInto(
     out[a0 * M1 + b1] += wi * (1 - f0) * f1;
     out[a1 * M1 + b0] += wi * f0 * (1 - f1);
     out[a1 * M1 + b1] += wi * f0 * f1;
-  }
-}
-
-/** In-place N-d (1 or 2) FFT over a row-major padded grid. */
-export function fftNd(re: Float64Array, im: Float64Array, M: readonly number[], sign: 1 | -1) {
-  if (M.length === 1) {
-    fft(re, im, sign);
-    return;
-  }
-  const [m0, m1] = M;
-  for (let i = 0; i < m0; i++) {
-    fft(re.subarray(i * m1, (i + 1) * m1), im.subarray(i * m1, (i + 1) * m1), sign);
-  }
-  const cr = new Float64Array(m0), ci = new Float64Array(m0);
-  for (let j = 0; j < m1; j++) {
-    for (let i = 0; i < m0; i++) {
-      cr[i] = re[i * m1 + j];
-      ci[i] = im[i * m1 + j];
-    }
-    fft(cr, ci, sign);
-    for (let i = 0; i < m0; i++) {
-      re[i * m1 + j] = cr[i];
-      im[i * m1 + j] = ci[i];
-    }
   }
 }

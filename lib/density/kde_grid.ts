@@ -10,7 +10,7 @@ import { SaddleError } from "../errors/saddle_error.ts";
 import { cholesky, choleskyInverse, logDetCholesky } from "../linalg/cholesky.ts";
 import { fromBuffer } from "../samples/samples.ts";
 import { LOG_2PI } from "./_common.ts";
-import { fft, nextPow2 } from "./_fft.ts";
+import { fftNd, nextPow2 } from "./_fft.ts";
 import { LOG_CUT } from "./_kde_eval.ts";
 import type { KdeDensity } from "./kde.ts";
 
@@ -247,30 +247,6 @@ function checkError(
     if (e >= 1e-8 * dmax && diff / e > rel) rel = diff / e;
   });
   return { checked: nodes.length, maxRelError: rel, maxAbsErrorOverMax: abs / dmax };
-}
-
-function fftNd(re: Float64Array, im: Float64Array, M: number[], sign: 1 | -1): void {
-  if (M.length === 1) {
-    fft(re, im, sign);
-    return;
-  }
-  const [m0, m1] = M;
-  for (let i = 0; i < m0; i++) {
-    const r = re.subarray(i * m1, (i + 1) * m1), s = im.subarray(i * m1, (i + 1) * m1);
-    fft(r, s, sign);
-  }
-  const cr = new Float64Array(m0), ci = new Float64Array(m0);
-  for (let j = 0; j < m1; j++) {
-    for (let i = 0; i < m0; i++) {
-      cr[i] = re[i * m1 + j];
-      ci[i] = im[i * m1 + j];
-    }
-    fft(cr, ci, sign);
-    for (let i = 0; i < m0; i++) {
-      re[i * m1 + j] = cr[i];
-      im[i * m1 + j] = ci[i];
-    }
-  }
 }
 
 function perAxis(v: number | readonly number[], d: number, name: string): number[] {
